@@ -1,0 +1,39 @@
+/**
+ * Roles and the one capability map every server action and route handler consults.
+ * Safe to import from client components (navigation uses it to decide what to show), but showing
+ * or hiding a link is never the check: the server calls `can()` on every request.
+ */
+export const roles = ["technician", "qa-lead", "engineer", "admin"] as const;
+export type Role = (typeof roles)[number];
+
+export const roleLabels: Record<Role, string> = {
+  technician: "Technician",
+  "qa-lead": "QA lead",
+  engineer: "Engineer",
+  admin: "Administrator",
+};
+
+export function isRole(value: unknown): value is Role {
+  return typeof value === "string" && (roles as readonly string[]).includes(value);
+}
+
+const everyone = roles;
+
+export const capabilities = {
+  /** Read cell types, batches, cells, runs and their results. */
+  "registry.read": everyone,
+  "cell-type.write": ["engineer", "admin"],
+  "batch.write": ["qa-lead", "engineer", "admin"],
+  /** Register single cells; technicians do this at the bench when a new cell arrives. */
+  "cell.write": everyone,
+  /** Import a batch's serial list from CSV. */
+  "cell.import": ["technician", "qa-lead", "engineer", "admin"],
+  "user.manage": ["admin"],
+} as const satisfies Record<string, readonly Role[]>;
+
+export type Capability = keyof typeof capabilities;
+
+export function can(role: Role | null | undefined, capability: Capability): boolean {
+  if (!role) return false;
+  return (capabilities[capability] as readonly Role[]).includes(role);
+}

@@ -1,0 +1,37 @@
+import "server-only";
+import path from "node:path";
+import { z } from "zod";
+
+/**
+ * Server settings, read from the environment once and validated, so a mistyped variable stops
+ * the app at start with a clear message instead of failing on some later request.
+ */
+const serverEnvSchema = z.object({
+  NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
+  /** A postgres:// URL selects a PostgreSQL server; otherwise the embedded PGlite directory is used. */
+  DATABASE_URL: z
+    .string()
+    .regex(/^postgres(ql)?:\/\//, "DATABASE_URL must start with postgres:// or postgresql://")
+    .optional()
+    .or(z.literal("").transform(() => undefined)),
+  KNEEPOINT_DATA_DIR: z.string().min(1).default("./data/pglite"),
+  BETTER_AUTH_SECRET: z.string().min(32, "BETTER_AUTH_SECRET must be at least 32 characters").optional(),
+  BETTER_AUTH_URL: z.url().default("http://localhost:3000"),
+  /** Extra browser origins allowed to post to the auth endpoints (comma-separated). */
+  KNEEPOINT_TRUSTED_ORIGINS: z.string().default(""),
+});
+
+export type ServerEnv = z.infer<typeof serverEnvSchema> & { dataDir: string };
+
+let cached: ServerEnv | undefined;
+
+export function serverEnv(): ServerEnv {
+  if (cached) return cached;
+  const parsed = serverEnvSchema.safeParse(process.env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join(".")}: ${i.message}`);
+    throw new Error(`Kneepoint cannot start: invalid environment\n${lines.join("\n")}`);
+  }
+  cached = { ...parsed.data, dataDir: path.resolve(parsed.data.KNEEPOINT_DATA_DIR) };
+  return cached;
+}

@@ -1,0 +1,29 @@
+import { closeDatabase, openDatabase, useDatabaseHandle, type DatabaseHandle } from "@/lib/db/client";
+import { resetAuth } from "@/lib/auth/auth";
+
+/**
+ * A fresh database for one test file: in-memory PGlite by default, or the PostgreSQL server named
+ * by TEST_DATABASE_URL (CI runs the integration suite against both). On a server every table is
+ * emptied first so files do not see each other's rows.
+ */
+export async function installTestDatabase(): Promise<DatabaseHandle> {
+  const url = process.env.TEST_DATABASE_URL;
+  const handle = await openDatabase(url ? { kind: "postgres", url } : { kind: "pglite-memory" });
+  if (url) {
+    await handle.db.execute(
+      // Truncating from the schema list keeps this in step with migrations automatically.
+      `do $$ declare r record; begin
+         for r in select tablename from pg_tables where schemaname = 'public' loop
+           execute 'truncate table ' || quote_ident(r.tablename) || ' restart identity cascade';
+         end loop; end $$;`,
+    );
+  }
+  useDatabaseHandle(handle);
+  resetAuth();
+  return handle;
+}
+
+export async function removeTestDatabase(): Promise<void> {
+  resetAuth();
+  await closeDatabase();
+}
