@@ -5,6 +5,9 @@ const nextConfig: NextConfig = {
   serverExternalPackages: ["@electric-sql/pglite", "smtp-server", "nodemailer"],
   poweredByHeader: false,
   typedRoutes: false,
+  // Type errors are caught by `npm run typecheck` (part of `npm test` and CI); checking again
+  // inside every build only doubles the build's time and memory on a 2-core machine.
+  typescript: { ignoreBuildErrors: true },
 };
 
 export default nextConfig;

@@ -1,12 +1,11 @@
 import "server-only";
 import { z } from "zod";
 import { AppError, type FieldErrors } from "@/lib/http/errors";
+import type { ActionResult } from "./action-result";
 import { can, type Capability } from "./roles";
 import { currentUser, type SessionUser } from "./session";
 
-export type ActionResult<T> =
-  | { ok: true; data: T }
-  | { ok: false; status: number; error: string; fieldErrors?: FieldErrors };
+export type { ActionResult };
 
 export function formDataToObject(form: FormData): Record<string, unknown> {
   const out: Record<string, unknown> = {};

@@ -1,0 +1,21 @@
+/** Every TanStack Query key in one place, so invalidation after a mutation cannot miss a list. */
+export const queryKeys = {
+  batches: {
+    all: ["batches"] as const,
+    list: (params: Record<string, string | number | undefined>) => ["batches", "list", params] as const,
+  },
+  cells: {
+    all: ["cells"] as const,
+    list: (params: Record<string, string | number | undefined>) => ["cells", "list", params] as const,
+  },
+  cellTypes: {
+    all: ["cell-types"] as const,
+  },
+};
+
+export function toSearch(params: Record<string, string | number | undefined>): string {
+  const search = new URLSearchParams();
+  for (const [k, v] of Object.entries(params)) if (v !== undefined && v !== "") search.set(k, String(v));
+  const text = search.toString();
+  return text ? `?${text}` : "";
+}
