@@ -1,0 +1,127 @@
+/**
+ * The role matrix: every server action and route handler in app/, called as each role and signed
+ * out, must allow exactly the roles written here and answer 401/403 to everyone else.
+ *
+ * The expectations are written out by hand (not derived from lib/auth/roles.ts) so that a change to
+ * the capability map shows up here as a failing row. The file list is discovered from disk, so a
+ * new action or route without a row fails the "covers everything" test.
+ */
+import fs from "node:fs";
+import path from "node:path";
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+import type { Role } from "@/lib/auth/roles";
+import { withRequestHeaders } from "@/lib/auth/request-headers";
+import { installTestDatabase, removeTestDatabase } from "../support/db";
+import { signedInUser, type SignedInUser } from "../support/users";
+
+vi.mock("next/cache", () => ({ revalidatePath: vi.fn(), revalidateTag: vi.fn(), updateTag: vi.fn() }));
+
+const all: Role[] = ["technician", "qa-lead", "engineer", "admin"];
+
+type ActionRow = { kind: "action"; allowed: Role[] };
+type RouteRow = { kind: "route"; allowed: Role[] | "public"; url: string; params?: Record<string, string>; body?: () => BodyInit };
+
+/** file (relative to app/) → export name → expectation */
+const matrix: Record<string, Record<string, ActionRow | RouteRow>> = {
+  "(lab)/batches/actions.ts": {
+    createBatchAction: { kind: "action", allowed: ["qa-lead", "engineer", "admin"] },
+  },
+  "api/auth/[...all]/route.ts": {
+    GET: { kind: "route", allowed: "public", url: "/api/auth/get-session" },
+    POST: { kind: "route", allowed: "public", url: "/api/auth/sign-out" },
+  },
+  "api/batches/route.ts": { GET: { kind: "route", allowed: all, url: "/api/batches" } },
+  "api/cells/route.ts": { GET: { kind: "route", allowed: all, url: "/api/cells" } },
+  "api/cell-types/route.ts": { GET: { kind: "route", allowed: all, url: "/api/cell-types" } },
+};
+
+const appDir = path.join(process.cwd(), "app");
+
+function discover(): string[] {
+  const found: string[] = [];
+  const walk = (dir: string) => {
+    for (const entry of fs.readdirSync(dir, { withFileTypes: true })) {
+      const full = path.join(dir, entry.name);
+      if (entry.isDirectory()) walk(full);
+      else if (entry.name === "actions.ts" || entry.name === "route.ts") found.push(path.relative(appDir, full).split(path.sep).join("/"));
+    }
+  };
+  walk(appDir);
+  return found.sort();
+}
+
+async function loadExports(file: string): Promise<Record<string, unknown>> {
+  return (await import(/* @vite-ignore */ path.join(appDir, file))) as Record<string, unknown>;
+}
+
+const httpMethods = new Set(["GET", "POST", "PUT", "PATCH", "DELETE"]);
+function isEndpointExport(file: string, name: string, value: unknown): boolean {
+  if (typeof value !== "function") return false;
+  return file.endsWith("route.ts") ? httpMethods.has(name) : true;
+}
+
+let users: Record<Role, SignedInUser>;
+
+beforeAll(async () => {
+  await installTestDatabase();
+  users = {
+    technician: await signedInUser("technician"),
+    "qa-lead": await signedInUser("qa-lead"),
+    engineer: await signedInUser("engineer"),
+    admin: await signedInUser("admin"),
+  };
+});
+afterAll(removeTestDatabase);
+
+describe("role matrix", () => {
+  it("has a row for every server action and route handler, and no stale rows", async () => {
+    const discovered: string[] = [];
+    for (const file of discover()) {
+      for (const [name, value] of Object.entries(await loadExports(file))) {
+        if (isEndpointExport(file, name, value)) discovered.push(`${file}#${name}`);
+      }
+    }
+    const listed = Object.entries(matrix).flatMap(([file, rows]) => Object.keys(rows).map((name) => `${file}#${name}`));
+    expect(discovered.sort()).toEqual(listed.sort());
+  });
+
+  for (const [file, rows] of Object.entries(matrix)) {
+    for (const [name, row] of Object.entries(rows)) {
+      if (row.kind === "action") {
+        it(`${file} ${name}: allows ${row.allowed.join(", ") || "nobody"}`, async () => {
+          const action = (await loadExports(file))[name] as (input: FormData) => Promise<{ ok: boolean; status?: number }>;
+          const signedOut = await withRequestHeaders(new Headers(), () => action(new FormData()));
+          expect(signedOut).toMatchObject({ ok: false, status: 401 });
+          for (const role of all) {
+            // An empty form passes the session and role check only to fail validation (400).
+            const result = await withRequestHeaders(users[role].headers, () => action(new FormData()));
+            const status = result.ok ? 200 : result.status;
+            if (row.allowed.includes(role)) expect([role, status]).not.toEqual([role, 403]);
+            else expect([role, status]).toEqual([role, 403]);
+            expect(status).not.toBe(401);
+          }
+        });
+      } else {
+        it(`${file} ${name}: ${row.allowed === "public" ? "public" : `allows ${row.allowed.join(", ")}`}`, async () => {
+          const handler = (await loadExports(file))[name] as (request: Request, context: { params: Promise<Record<string, string>> }) => Promise<Response>;
+          const call = (headers: Headers) =>
+            handler(new Request(`http://localhost:3000${row.url}`, { method: name, headers, body: row.body?.() }), {
+              params: Promise.resolve(row.params ?? {}),
+            });
+          const signedOut = await call(new Headers({ origin: "http://localhost:3000" }));
+          if (row.allowed === "public") {
+            expect(signedOut.status).toBeLessThan(500);
+            return;
+          }
+          expect(signedOut.status).toBe(401);
+          for (const role of all) {
+            const response = await call(users[role].headers);
+            const expected = row.allowed.includes(role);
+            if (expected) expect(response.status, `${role} should be allowed`).toBeLessThan(400);
+            else expect(response.status, `${role} should be refused`).toBe(403);
+          }
+        });
+      }
+    }
+  }
+});
