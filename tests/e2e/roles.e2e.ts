@@ -1,0 +1,52 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { BrowserContext } from "playwright-core";
+import { demoUsers } from "@/lib/db/seed-users";
+import { startAppServer, type AppServer } from "./support/app-server";
+import { openBrowser, screenshot, signIn } from "./support/browser";
+
+let app: AppServer;
+let browser: BrowserContext;
+
+beforeAll(async () => {
+  app = await startAppServer();
+  browser = await openBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await app?.stop();
+});
+
+// Written out by hand: what each role should find in the main navigation.
+const expectedNav: Record<string, string[]> = {
+  technician: ["Start", "Cells", "Batches", "Cell types"],
+  "qa-lead": ["Start", "Cells", "Batches", "Cell types"],
+  engineer: ["Start", "Cells", "Batches", "Cell types"],
+  admin: ["Start", "Cells", "Batches", "Cell types", "People"],
+};
+
+describe("signing in as each demo role", () => {
+  it("sends a signed-out visitor to the sign-in page", async () => {
+    const page = await browser.newPage();
+    await page.goto(`${app.url}/batches`);
+    expect(new URL(page.url()).pathname).toBe("/sign-in");
+    await screenshot(page, "sign-in");
+    await page.close();
+  });
+
+  for (const user of demoUsers) {
+    it(`shows the ${user.role} navigation`, async () => {
+      const page = await browser.newPage();
+      await signIn(page, app.url, user.email, user.password);
+      const nav = page.getByRole("navigation", { name: "Main" });
+      expect(await nav.getByRole("link").allInnerTexts()).toEqual(expectedNav[user.role]);
+      expect(await page.getByTestId("role-badge").innerText()).toMatch(new RegExp(user.role === "qa-lead" ? "QA lead" : user.role, "i"));
+      await page.goto(`${app.url}/batches`);
+      await page.getByRole("link", { name: "P1000-2611-B" }).waitFor();
+      await screenshot(page, `batches-${user.role}`);
+      await page.goto(`${app.url}/sign-out`);
+      await page.getByRole("button", { name: "Sign out now" }).click();
+      await page.waitForURL(`${app.url}/sign-in`);
+      await page.close();
+    });
+  }
+});
