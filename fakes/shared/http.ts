@@ -1,5 +1,5 @@
 import { type IncomingMessage, type Server, type ServerResponse } from "node:http";
-import { type AddressInfo } from "node:net";
+import { type AddressInfo, type Server as NetServer } from "node:net";
 import { z } from "zod";
 
 /** An error whose message is safe to show the caller; anything else becomes a generic 500. */
@@ -66,7 +66,7 @@ export function parseWith<T extends z.ZodType>(schema: T, value: unknown, what: 
   return result.data;
 }
 
-export function listen(server: Server, port: number, host: string): Promise<number> {
+export function listen(server: NetServer, port: number, host: string): Promise<number> {
   return new Promise((resolve, reject) => {
     server.once("error", reject);
     server.listen(port, host, () => {

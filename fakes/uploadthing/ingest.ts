@@ -111,13 +111,14 @@ export class UploadIngest {
   /** Resolves to the stored record, or undefined when the client went away (the partial bytes stay). */
   private async receive(req: IncomingMessage, ticket: UploadTicket): Promise<StoredFile | undefined> {
     const { store } = this.ctx;
+    // Checked before anything is written: a wrong offset must not cost the bytes already stored.
+    const start = rangeStart(req.headers.range);
+    const already = await store.partialSize(ticket.key);
+    if (start !== 0 && start !== already) {
+      throw new HttpError(416, `Cannot resume at byte ${start}: ${already} bytes of this file are stored`);
+    }
+    if (start > ticket.declaredSize) throw new HttpError(416, "The range starts beyond the declared file size");
     try {
-      const start = rangeStart(req.headers.range);
-      const already = await store.partialSize(ticket.key);
-      if (start !== 0 && start !== already) {
-        throw new HttpError(416, `Cannot resume at byte ${start}: ${already} bytes of this file are stored`);
-      }
-      if (start > ticket.declaredSize) throw new HttpError(416, "The range starts beyond the declared file size");
       const hash = createHash("sha256");
       if (start > 0) await hashExisting(store.partialPath(ticket.key), hash);
       const received = await receiveFilePart(req, {

@@ -366,6 +366,18 @@ describe("browser upload flow through the real route handler", () => {
     await vi.waitFor(async () => expect(await rangeStart()).toBeGreaterThan(0), { timeout: 10_000, interval: 20 });
     interrupted.destroy();
 
+    // A resume at the wrong offset is refused without losing what is stored (409 while the dropped request winds down).
+    const wrongOffset = new FormData();
+    wrongOffset.append("file", file.slice(bytes.length - 1));
+    await vi.waitFor(
+      async () => {
+        const refused = await fetch(presigned.url, { method: "PUT", headers: { Range: `bytes=${bytes.length - 1}-` }, body: wrongOffset });
+        expect(refused.status).toBe(416);
+      },
+      { timeout: 10_000, interval: 50 },
+    );
+    expect(await rangeStart()).toBeGreaterThan(0);
+
     // The aborted request may still hold the key for a moment; the browser would simply retry.
     const result = await vi.waitFor(
       async () => {
