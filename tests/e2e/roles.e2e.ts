@@ -1,11 +1,11 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { BrowserContext } from "playwright-core";
+import type { Browser } from "playwright-core";
 import { demoUsers } from "@/lib/db/seed-users";
 import { startAppServer, type AppServer } from "./support/app-server";
-import { openBrowser, screenshot, signIn } from "./support/browser";
+import { freshPage, openBrowser, screenshot, signIn } from "./support/browser";
 
 let app: AppServer;
-let browser: BrowserContext;
+let browser: Browser;
 
 beforeAll(async () => {
   app = await startAppServer();
@@ -26,27 +26,27 @@ const expectedNav: Record<string, string[]> = {
 
 describe("signing in as each demo role", () => {
   it("sends a signed-out visitor to the sign-in page", async () => {
-    const page = await browser.newPage();
+    const page = await freshPage(browser);
     await page.goto(`${app.url}/batches`);
     expect(new URL(page.url()).pathname).toBe("/sign-in");
     await screenshot(page, "sign-in");
-    await page.close();
+    await page.context().close();
   });
 
   for (const user of demoUsers) {
     it(`shows the ${user.role} navigation`, async () => {
-      const page = await browser.newPage();
+      const page = await freshPage(browser);
       await signIn(page, app.url, user.email, user.password);
+      await page.goto(`${app.url}/batches`);
       const nav = page.getByRole("navigation", { name: "Main" });
       expect(await nav.getByRole("link").allInnerTexts()).toEqual(expectedNav[user.role]);
       expect(await page.getByTestId("role-badge").innerText()).toMatch(new RegExp(user.role === "qa-lead" ? "QA lead" : user.role, "i"));
-      await page.goto(`${app.url}/batches`);
       await page.getByRole("link", { name: "P1000-2611-B" }).waitFor();
       await screenshot(page, `batches-${user.role}`);
       await page.goto(`${app.url}/sign-out`);
       await page.getByRole("button", { name: "Sign out now" }).click();
       await page.waitForURL(`${app.url}/sign-in`);
-      await page.close();
+      await page.context().close();
     });
   }
 });

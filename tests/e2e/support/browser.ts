@@ -1,19 +1,22 @@
 import fs from "node:fs";
-import os from "node:os";
 import path from "node:path";
-import { chromium, type BrowserContext, type Page } from "playwright-core";
+import { chromium, type Browser, type Page } from "playwright-core";
 
 export const artifactsDir = path.join(process.cwd(), "tests", "artifacts");
 
 /** Debian's Chromium, headless, with the flags this sandbox needs (no network beyond loopback). */
-export async function openBrowser(): Promise<BrowserContext> {
-  const profile = fs.mkdtempSync(path.join(os.tmpdir(), "kneepoint-chromium-"));
-  return chromium.launchPersistentContext(profile, {
+export async function openBrowser(): Promise<Browser> {
+  return chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
     headless: true,
-    viewport: { width: 1366, height: 900 },
     args: ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"],
   });
+}
+
+/** A page in its own fresh context, so no cookie carries over from one test to the next. */
+export async function freshPage(browser: Browser): Promise<Page> {
+  const context = await browser.newContext({ viewport: { width: 1366, height: 900 } });
+  return context.newPage();
 }
 
 export async function screenshot(page: Page, name: string): Promise<string> {
