@@ -29,12 +29,13 @@ export interface AppServer {
  */
 export async function startAppServer(extraEnv: Record<string, string> = {}): Promise<AppServer> {
   const port = await freePort();
+  const fakePorts = { FAKE_UPLOAD_PORT: String(await freePort()), FAKE_SMTP_PORT: String(await freePort()), FAKE_SMTP_HTTP_PORT: String(await freePort()) };
   const dataRoot = fs.mkdtempSync(path.join(os.tmpdir(), "kneepoint-e2e-"));
   const url = `http://localhost:${port}`;
   let log = "";
   const child = spawn(process.execPath, [path.join("node_modules", "tsx", "dist", "cli.mjs"), "--conditions=react-server", "lib/cli/start.ts"], {
     cwd: process.cwd(),
-    env: { ...process.env, PORT: String(port), KNEEPOINT_DATA_ROOT: dataRoot, BETTER_AUTH_URL: url, KNEEPOINT_PORT_BASE: String(port + 1), ...extraEnv },
+    env: { ...process.env, PORT: String(port), KNEEPOINT_DATA_ROOT: dataRoot, BETTER_AUTH_URL: url, ...fakePorts, ...extraEnv },
     stdio: ["ignore", "pipe", "pipe"],
   });
   child.stdout?.on("data", (d: Buffer) => (log += d.toString()));
