@@ -5,6 +5,7 @@ import { useId, useMemo, useState, useTransition, type ChangeEvent } from "react
 import { Button } from "@/components/ui/button";
 import { SelectField, TextAreaField } from "@/components/ui/field";
 import { Panel } from "@/components/ui/panel";
+import { cellClass, headersOf, SimpleTable } from "@/components/ui/simple-table";
 import { queryKeys } from "@/lib/api/query-keys";
 import type { ActionResult } from "@/lib/auth/action-result";
 import { problemsByLine, readSerialList, type SerialLine, type SerialListChoice } from "@/lib/registry/serial-list";
@@ -178,34 +179,18 @@ export function SerialImport({ batchId, lotCode, expected }: { batchId: string; 
             ) : null}
 
             <div className="overflow-x-auto rounded-md border border-rule">
-              <table className="min-w-full text-sm">
-                <caption className="sr-only">First lines of the list</caption>
-                <thead className="bg-paper text-left text-xs uppercase tracking-wide text-ink-soft">
-                  <tr>
-                    <th scope="col" className="px-3 py-1.5 text-right">
-                      Line
-                    </th>
-                    <th scope="col" className="px-3 py-1.5">
-                      Serial
-                    </th>
-                    <th scope="col" className="px-3 py-1.5">
-                      Check
-                    </th>
-                  </tr>
-                </thead>
-                <tbody>
-                  {list.lines.slice(0, previewLines).map((line) => {
-                    const problems = problemsOf(line);
-                    return (
-                      <tr key={line.line} className={`border-t border-rule/60 ${problems.length ? "bg-danger-wash" : ""}`}>
-                        <td className="px-3 py-1.5 text-right tabular-nums text-ink-soft">{line.line}</td>
-                        <td className="px-3 py-1.5 font-mono">{line.serial || <span className="text-ink-soft">(empty)</span>}</td>
-                        <td className={`px-3 py-1.5 ${problems.length ? "text-danger" : "text-ok"}`}>{problems.length ? problems.join("; ") : "ok"}</td>
-                      </tr>
-                    );
-                  })}
-                </tbody>
-              </table>
+              <SimpleTable caption="First lines of the list" headers={headersOf("Line#", "Serial", "Check")}>
+                {list.lines.slice(0, previewLines).map((line) => {
+                  const problems = problemsOf(line);
+                  return (
+                    <tr key={line.line} className={problems.length ? "bg-danger-wash" : ""}>
+                      <td className={`${cellClass(true)} text-ink-soft`}>{line.line}</td>
+                      <td className={`${cellClass()} font-mono`}>{line.serial || <span className="text-ink-soft">(empty)</span>}</td>
+                      <td className={`${cellClass()} ${problems.length ? "text-danger" : "text-ok"}`}>{problems.length ? problems.join("; ") : "ok"}</td>
+                    </tr>
+                  );
+                })}
+              </SimpleTable>
               {list.lines.length > previewLines ? (
                 <p className="border-t border-rule/60 px-3 py-1.5 text-xs text-ink-soft">…and {list.lines.length - previewLines} more lines.</p>
               ) : null}

@@ -1,0 +1,41 @@
+import type { Metadata } from "next";
+import { redirect } from "next/navigation";
+import type { ReactNode } from "react";
+import { PageTitle } from "@/components/ui/panel";
+import { roleLabels, type Role } from "@/lib/auth/roles";
+import { currentUser } from "@/lib/auth/session";
+import { CellTypeCountsBlock, PendingBatchesBlock, RecentCellsBlock, UserCountsBlock } from "./_components/start-blocks";
+
+export const metadata: Metadata = { title: "Start" };
+
+const intro: Record<Role, string> = {
+  technician: "Register cells as they arrive at the bench, by hand or from a lot's serial list.",
+  "qa-lead": "Lots waiting for your decision, with how many of their cells are registered so far.",
+  engineer: "The cell types the lab tests and the state of their cells.",
+  admin: "Who has an account and in which role.",
+};
+
+function blocksFor(role: Role, userId: string): ReactNode {
+  switch (role) {
+    case "technician":
+      return <RecentCellsBlock userId={userId} />;
+    case "qa-lead":
+      return <PendingBatchesBlock />;
+    case "engineer":
+      return <CellTypeCountsBlock />;
+    case "admin":
+      return <UserCountsBlock />;
+  }
+}
+
+export default async function StartPage() {
+  const user = await currentUser();
+  if (!user) redirect("/sign-in");
+  return (
+    <>
+      <PageTitle kicker={roleLabels[user.role]} title={`Hello, ${user.name}`} />
+      <p className="mb-6 max-w-2xl text-sm text-ink-soft">{intro[user.role]}</p>
+      <div className="space-y-6">{blocksFor(user.role, user.id)}</div>
+    </>
+  );
+}
