@@ -185,3 +185,206 @@ export type BatchInsert = typeof batch.$inferInsert;
 export type CellRow = typeof cell.$inferSelect;
 export type CellInsert = typeof cell.$inferInsert;
 export type AuditEventRow = typeof auditEvent.$inferSelect;
+
+/* ------------------------------------------------------------------------------------------
+ * Runs: one uploaded bench log of one cell, its analyses (versions) and their results.
+ * ---------------------------------------------------------------------------------------- */
+
+export const runPurposes = ["capacity check", "cycle life", "internal resistance", "formation", "other"] as const;
+export const runPurpose = pgEnum("run_purpose", runPurposes);
+export const runStatuses = ["queued", "analysing", "complete", "failed"] as const;
+export const runStatus = pgEnum("run_status", runStatuses);
+export const runSource = pgEnum("run_source", ["browser", "api"]);
+
+/** What a failed run keeps: the engine's located error, or a runner problem without a location. */
+export interface RunError {
+  code: string;
+  message: string;
+  line?: number;
+  column?: number;
+  file?: string;
+}
+
+export const run = pgTable(
+  "run",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    cellId: uuid("cell_id")
+      .notNull()
+      .references(() => cell.id, { onDelete: "restrict" }),
+    uploadedBy: text("uploaded_by").references(() => user.id, { onDelete: "set null" }),
+    source: runSource("source").notNull(),
+    purpose: runPurpose("purpose").notNull(),
+    ambientTempC: doublePrecision("ambient_temp_c"),
+    operatorNote: text("operator_note").notNull().default(""),
+    /** The raw file in the upload service; never changed after upload. */
+    fileKey: text("file_key").notNull().unique(),
+    fileName: text("file_name").notNull(),
+    fileSize: bigint("file_size", { mode: "number" }).notNull(),
+    /** SHA-256 (hex) of the raw bytes, computed by us while streaming them. */
+    sha256: text("sha256").notNull(),
+    status: runStatus("status").notNull().default("queued"),
+    error: jsonb("error").$type<RunError>(),
+    /** The column map the pending (or last) analysis uses; null means detection decides. Survives a restart. */
+    requestedColumnMap: jsonb("requested_column_map"),
+    /** Analyses started for the current request; a run that keeps crashing the worker is failed, not retried forever. */
+    attempts: integer("attempts").notNull().default(0),
+    /** Highest analysis version stored; null until the first analysis completes. */
+    latestVersion: integer("latest_version"),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    startedAt: timestamp("started_at", { withTimezone: true }),
+    finishedAt: timestamp("finished_at", { withTimezone: true }),
+  },
+  (t) => [
+    // A byte-identical file can be stored once per cell: the second upload is refused.
+    uniqueIndex("run_cell_sha256_unique").on(t.cellId, t.sha256),
+    index("run_cell_created_idx").on(t.cellId, t.createdAt),
+    index("run_status_idx").on(t.status),
+  ],
+);
+
+export const analysisVersion = pgTable(
+  "analysis_version",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    runId: uuid("run_id")
+      .notNull()
+      .references(() => run.id, { onDelete: "cascade" }),
+    version: integer("version").notNull(),
+    /** The column map the reader applied (the effective one, detection included). */
+    columnMap: jsonb("column_map").notNull(),
+    detection: jsonb("detection").notNull(),
+    /** The whole report in the CLI's JSON shape. */
+    report: jsonb("report").notNull(),
+    engineVersion: text("engine_version").notNull(),
+    requestedBy: text("requested_by").references(() => user.id, { onDelete: "set null" }),
+    // Key numbers, copied out of the report so a cell's run list needs no JSON digging.
+    chargedMah: doublePrecision("charged_mah"),
+    dischargedMah: doublePrecision("discharged_mah"),
+    coulombicEfficiency: doublePrecision("coulombic_efficiency"),
+    switchTimeS: doublePrecision("switch_time_s"),
+    switchVoltageV: doublePrecision("switch_voltage_v"),
+    switchCapacityMah: doublePrecision("switch_capacity_mah"),
+    findingsCount: integer("findings_count").notNull().default(0),
+    safetyFindingsCount: integer("safety_findings_count").notNull().default(0),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex("analysis_version_run_version_unique").on(t.runId, t.version)],
+);
+
+export const runStep = pgTable(
+  "run_step",
+  {
+    id: bigint("id", { mode: "number" }).primaryKey().generatedAlwaysAsIdentity(),
+    analysisId: uuid("analysis_id")
+      .notNull()
+      .references(() => analysisVersion.id, { onDelete: "cascade" }),
+    step: integer("step").notNull(),
+    cycle: integer("cycle"),
+    kind: text("kind").notNull(),
+    startS: doublePrecision("start_s").notNull(),
+    endS: doublePrecision("end_s").notNull(),
+    chargedMah: doublePrecision("charged_mah"),
+    dischargedMah: doublePrecision("discharged_mah"),
+    startVoltageV: doublePrecision("start_voltage_v"),
+    endVoltageV: doublePrecision("end_voltage_v"),
+    meanCurrentA: doublePrecision("mean_current_a"),
+    /** The step as the report has it (every field). */
+    detail: jsonb("detail").notNull(),
+  },
+  (t) => [uniqueIndex("run_step_analysis_step_unique").on(t.analysisId, t.step)],
+);
+
+export const runCycle = pgTable(
+  "run_cycle",
+  {
+    id: bigint("id", { mode: "number" }).primaryKey().generatedAlwaysAsIdentity(),
+    analysisId: uuid("analysis_id")
+      .notNull()
+      .references(() => analysisVersion.id, { onDelete: "cascade" }),
+    cycle: integer("cycle").notNull(),
+    chargedMah: doublePrecision("charged_mah"),
+    dischargedMah: doublePrecision("discharged_mah"),
+    coulombicEfficiency: doublePrecision("coulombic_efficiency"),
+    switchTimeS: doublePrecision("switch_time_s"),
+    switchVoltageV: doublePrecision("switch_voltage_v"),
+    switchCapacityMah: doublePrecision("switch_capacity_mah"),
+    detail: jsonb("detail").notNull(),
+  },
+  (t) => [uniqueIndex("run_cycle_analysis_cycle_unique").on(t.analysisId, t.cycle)],
+);
+
+export const runFinding = pgTable(
+  "run_finding",
+  {
+    id: bigint("id", { mode: "number" }).primaryKey().generatedAlwaysAsIdentity(),
+    analysisId: uuid("analysis_id")
+      .notNull()
+      .references(() => analysisVersion.id, { onDelete: "cascade" }),
+    kind: text("kind").notNull(),
+    severity: text("severity").notNull(),
+    timeS: doublePrecision("time_s").notNull(),
+    endS: doublePrecision("end_s"),
+    line: integer("line"),
+    value: doublePrecision("value"),
+    limitValue: doublePrecision("limit_value"),
+    unit: text("unit"),
+    message: text("message").notNull(),
+    caution: text("caution").notNull().default(""),
+  },
+  (t) => [index("run_finding_analysis_idx").on(t.analysisId)],
+);
+
+/** Downsampled plot data, one row per trace, persisted at analysis time. */
+export const plotSeries = pgTable(
+  "plot_series",
+  {
+    id: bigint("id", { mode: "number" }).primaryKey().generatedAlwaysAsIdentity(),
+    analysisId: uuid("analysis_id")
+      .notNull()
+      .references(() => analysisVersion.id, { onDelete: "cascade" }),
+    trace: text("trace").notNull(),
+    data: jsonb("data").notNull(),
+  },
+  (t) => [uniqueIndex("plot_series_analysis_trace_unique").on(t.analysisId, t.trace)],
+);
+
+/** A named column map a user saved from the upload page's correction. */
+export const savedColumnMap = pgTable(
+  "saved_column_map",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    ownerId: text("owner_id")
+      .notNull()
+      .references(() => user.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    map: jsonb("map").notNull(),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex("saved_column_map_owner_name_unique").on(t.ownerId, sql`lower(${t.name})`)],
+);
+
+/** Personal API tokens for the bench API. Only the SHA-256 of a token is stored. */
+export const apiToken = pgTable(
+  "api_token",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    ownerId: text("owner_id")
+      .notNull()
+      .references(() => user.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    tokenHash: text("token_hash").notNull().unique(),
+    /** The first characters of the token, to tell tokens apart on the settings page. */
+    prefix: text("prefix").notNull(),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    lastUsedAt: timestamp("last_used_at", { withTimezone: true }),
+    revokedAt: timestamp("revoked_at", { withTimezone: true }),
+  },
+  (t) => [index("api_token_owner_idx").on(t.ownerId)],
+);
+
+export type RunRow = typeof run.$inferSelect;
+export type AnalysisVersionRow = typeof analysisVersion.$inferSelect;
+export type RunPurpose = (typeof runPurposes)[number];
+export type RunStatus = (typeof runStatuses)[number];
