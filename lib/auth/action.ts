@@ -1,5 +1,5 @@
 import "server-only";
-import { z } from "zod";
+import type { z } from "zod";
 import { AppError, type FieldErrors } from "@/lib/http/errors";
 import type { ActionResult } from "./action-result";
 import { can, type Capability } from "./roles";

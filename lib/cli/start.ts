@@ -8,7 +8,7 @@ import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
-import { closeDatabase, openDatabase, useDatabaseHandle } from "@/lib/db/client";
+import { closeDatabase, openDatabase, installDatabaseHandle } from "@/lib/db/client";
 import { seedDemo } from "@/lib/db/seed";
 import { startLocalServices, type LocalServices } from "./local-services";
 
@@ -68,7 +68,7 @@ async function main(): Promise<void> {
 
   if (!env.DATABASE_URL) {
     const handle = await openDatabase({ kind: "pglite", dataDir: String(env.KNEEPOINT_DATA_DIR) });
-    useDatabaseHandle(handle);
+    installDatabaseHandle(handle);
     try {
       const seeded = await seedDemo(handle.db);
       console.log(seeded.seeded ? `Seeded the demo scenario (${seeded.users} users, ${seeded.cells} cells).` : "Database ready.");

@@ -1,4 +1,4 @@
-import { closeDatabase, openDatabase, targetFromEnv, useDatabaseHandle, type Database } from "@/lib/db/client";
+import { closeDatabase, openDatabase, targetFromEnv, installDatabaseHandle, type Database } from "@/lib/db/client";
 
 /**
  * Runs a command-line task against the configured database, holding the directory lock for the
@@ -6,7 +6,7 @@ import { closeDatabase, openDatabase, targetFromEnv, useDatabaseHandle, type Dat
  */
 export async function withDatabase<T>(task: (db: Database) => Promise<T>): Promise<T> {
   const handle = await openDatabase(targetFromEnv());
-  useDatabaseHandle(handle);
+  installDatabaseHandle(handle);
   try {
     return await task(handle.db);
   } finally {

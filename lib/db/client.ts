@@ -133,7 +133,7 @@ export async function getDb(): Promise<Database> {
 }
 
 /** Installs an already open handle as the process database (tests and scripts). */
-export function useDatabaseHandle(handle: DatabaseHandle): void {
+export function installDatabaseHandle(handle: DatabaseHandle): void {
   store.handle = handle;
   store.opening = Promise.resolve(handle);
 }

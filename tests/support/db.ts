@@ -1,4 +1,4 @@
-import { closeDatabase, openDatabase, useDatabaseHandle, type DatabaseHandle } from "@/lib/db/client";
+import { closeDatabase, openDatabase, installDatabaseHandle, type DatabaseHandle } from "@/lib/db/client";
 import { resetAuth } from "@/lib/auth/auth";
 
 /**
@@ -18,7 +18,7 @@ export async function installTestDatabase(): Promise<DatabaseHandle> {
          end loop; end $$;`,
     );
   }
-  useDatabaseHandle(handle);
+  installDatabaseHandle(handle);
   resetAuth();
   return handle;
 }
