@@ -227,6 +227,10 @@ export const run = pgTable(
     error: jsonb("error").$type<RunError>(),
     /** The column map the pending (or last) analysis uses; null means detection decides. Survives a restart. */
     requestedColumnMap: jsonb("requested_column_map"),
+    /** Bumped by every analysis request; a result whose request was overtaken is stored and the newer request runs next. */
+    requestSeq: integer("request_seq").notNull().default(0),
+    /** Who asked for the pending (or last) analysis. */
+    requestedBy: text("requested_by").references(() => user.id, { onDelete: "set null" }),
     /** Analyses started for the current request; a run that keeps crashing the worker is failed, not retried forever. */
     attempts: integer("attempts").notNull().default(0),
     /** Highest analysis version stored; null until the first analysis completes. */
