@@ -26,6 +26,19 @@ const matrix: Record<string, Record<string, ActionRow | RouteRow>> = {
   "(lab)/batches/actions.ts": {
     createBatchAction: { kind: "action", allowed: ["qa-lead", "engineer", "admin"] },
   },
+  "(lab)/batches/[batchId]/actions.ts": {
+    importSerialsAction: { kind: "action", allowed: ["technician", "qa-lead", "engineer", "admin"] },
+  },
+  "(lab)/cell-types/actions.ts": {
+    createCellTypeAction: { kind: "action", allowed: ["engineer", "admin"] },
+  },
+  "(lab)/cells/actions.ts": {
+    createCellAction: { kind: "action", allowed: ["technician", "qa-lead", "engineer", "admin"] },
+  },
+  "(admin)/admin/users/actions.ts": {
+    createUserAction: { kind: "action", allowed: ["admin"] },
+    setUserRoleAction: { kind: "action", allowed: ["admin"] },
+  },
   "api/auth/[...all]/route.ts": {
     GET: { kind: "route", allowed: "public", url: "/api/auth/get-session" },
     POST: { kind: "route", allowed: "public", url: "/api/auth/sign-out" },
