@@ -99,7 +99,7 @@ export function CellTable({ batchId, batches = [], caption, empty }: CellTablePr
           className={`${inputClass} max-w-xs`}
         />
         <label className="sr-only" htmlFor="cell-status">
-          Status
+          Filter by status
         </label>
         <select id="cell-status" value={params.status ?? ""} onChange={(e) => set({ status: e.target.value })} className={`${inputClass} w-auto`}>
           <option value="">Any status</option>
@@ -112,7 +112,7 @@ export function CellTable({ batchId, batches = [], caption, empty }: CellTablePr
         {batchId ? null : (
           <>
             <label className="sr-only" htmlFor="cell-batch">
-              Batch
+              Filter by batch
             </label>
             <select id="cell-batch" value={params.batchId ?? ""} onChange={(e) => set({ batchId: e.target.value })} className={`${inputClass} w-auto`}>
               <option value="">Any batch</option>

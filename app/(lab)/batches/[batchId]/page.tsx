@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { Suspense } from "react";
+import { cache, Suspense } from "react";
 import { z } from "zod";
 import { CellTable } from "@/components/cell-table";
 import { Badge, dispositionTone } from "@/components/ui/badge";
@@ -16,11 +16,8 @@ import { SerialImport } from "./_components/serial-import";
 type Params = { params: Promise<{ batchId: string }> };
 
 /** An id that is not a uuid cannot name a batch; checking first keeps it out of the query. */
-async function loadBatch(params: Params["params"]) {
-  const { batchId } = await params;
-  if (!z.uuid().safeParse(batchId).success) return null;
-  return getBatch(batchId);
-}
+const batchById = cache(async (batchId: string) => (z.uuid().safeParse(batchId).success ? getBatch(batchId) : null));
+const loadBatch = async (params: Params["params"]) => batchById((await params).batchId);
 
 export async function generateMetadata({ params }: Params): Promise<Metadata> {
   const batch = await loadBatch(params);

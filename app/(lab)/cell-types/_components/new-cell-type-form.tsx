@@ -116,7 +116,7 @@ export function NewCellTypeForm() {
     const parts = [];
     if (preset) parts.push(<ProvenanceHint key="p" preset={preset} current={values[field.name]} />);
     if (field.name === "terminationC" && termination > 0 && termination <= 1)
-      parts.push(<span key="t"> That is {formatTermination(termination)}; C/20 is written 0.05.</span>);
+      parts.push(<span key="t"> That is {formatTermination(termination)}.</span>);
     return parts.length ? parts : undefined;
   };
 

@@ -149,7 +149,7 @@ export function SerialImport({ batchId, lotCode, expected }: { batchId: string; 
               {problemLines.length ? `; ${problemLines.length} ${problemLines.length === 1 ? "line needs" : "lines need"} attention` : ""}.
               {expected > 0 && serials.length !== expected ? (
                 <span className="mt-1 block text-warn">
-                  The batch has {expected} cells still to register; this list has {serials.length}.
+                  The batch has {expected} {expected === 1 ? "cell" : "cells"} still to register; this list has {serials.length}.
                 </span>
               ) : null}
             </p>
