@@ -1,5 +1,10 @@
 /** Fills reusable columnar batches and hands each one on when full. */
 import type { SampleBatch } from "../types";
+import * as slots from "./row-slots";
+
+// Module-local copies of imported bindings: a CommonJS build (tsx: the CLI and the bench) reaches
+// imports through getters, which costs more than the parsing itself in per-row code.
+const { rowCycle, rowI, rowStep, rowT, rowTemp, rowV } = slots;
 
 export class Batcher {
   private readonly batch: SampleBatch;
@@ -23,16 +28,17 @@ export class Batcher {
     };
   }
 
-  push(line: number, t: number, v: number, i: number, temp: number, step: number, cycle: number): void {
+  /** Appends the converted row in `row` (see row-slots.ts). */
+  push(line: number, row: Float64Array): void {
     const b = this.batch;
     const k = b.length;
     b.line[k] = line;
-    b.t[k] = t;
-    b.v[k] = v;
-    b.i[k] = i;
-    if (b.temp) b.temp[k] = temp;
-    if (b.step) b.step[k] = step;
-    if (b.cycle) b.cycle[k] = cycle;
+    b.t[k] = row[rowT]!;
+    b.v[k] = row[rowV]!;
+    b.i[k] = row[rowI]!;
+    if (b.temp) b.temp[k] = row[rowTemp]!;
+    if (b.step) b.step[k] = row[rowStep]!;
+    if (b.cycle) b.cycle[k] = row[rowCycle]!;
     b.length = k + 1;
     if (b.length === this.size) this.flush();
   }

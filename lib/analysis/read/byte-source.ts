@@ -112,7 +112,8 @@ export function invalidUtf8Bytes(bytes: Uint8Array): number {
  * binary. Invalid UTF-8 in a small share of bytes means a legacy 8-bit file
  * (a Latin-1 "°" in a header); in a large share, binary.
  */
-export function judgeBytes(head: Uint8Array): ByteVerdict {
+export function judgeBytes(whole: Uint8Array): ByteVerdict {
+  const head = whole.subarray(0, 256 * 1024);
   if (head[0] === 0xff && head[1] === 0xfe) return { encoding: "utf-16le", binary: null };
   if (head[0] === 0xfe && head[1] === 0xff) return { encoding: "utf-16be", binary: null };
   if (looksUtf16(head, 1)) return { encoding: "utf-16le", binary: null };

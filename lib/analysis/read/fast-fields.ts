@@ -1,8 +1,10 @@
 /**
  * Byte-level cell parsers for the fast path: bytes to numbers without a string
- * per field. Each parser starts at a field's first byte and leaves `cursor.pos`
- * on the delimiter that ends the field (or the line end) and `cursor.status`
- * telling a good value from an empty or bad cell.
+ * per field. Each parser starts at a field's first byte, leaves `cursor.pos`
+ * on the delimiter that ends the field (or the line end), puts the value in
+ * `parsed` and returns a status telling a good value from an empty or bad cell.
+ * Values go through a Float64Array rather than return values: V8 boxes a
+ * double returned from a call it does not inline, which would allocate per cell.
  *
  * Decimal conversion: a mantissa m < 2^53 and a power of ten 10^k with k <= 22
  * are both exact doubles, so m / 10^k (or m * 10^k) is a single correctly
@@ -10,14 +12,20 @@
  * nearest; the "fast path" of Clinger's algorithm, W. D. Clinger, PLDI 1990).
  * Anything outside that range falls back to Number() on the field's text.
  */
-import { hmsSeconds, validDate, wholeSeconds } from "./civil-time";
+import * as civil from "./civil-time";
+
+// Module-local copies of imported bindings: a CommonJS build (tsx: the CLI and the bench) reaches
+// imports through getters, which costs more than the parsing itself in per-row code.
+const { hmsSeconds, validDate, wholeSeconds } = civil;
 
 export const fieldOk = 0;
 export const fieldEmpty = 1;
 export const fieldBad = 2;
 
-/** Shared scan state, so the hot loop allocates nothing. `frac`: a timestamp's fraction; `stop`: a text field's end. */
-export const cursor = { pos: 0, status: fieldOk, frac: 0, stop: 0 };
+/** Shared scan state. `quoted`: the field opened with a quote; `stop`, `status`: a text field's end and status. */
+export const cursor = { pos: 0, status: fieldOk, quoted: false, stop: 0 };
+/** [0]: the value parsed last; [1]: a timestamp's fraction of a second. */
+export const parsed = new Float64Array(2);
 
 const quote = 34;
 const space = 32;
@@ -44,17 +52,16 @@ export function skipField(buf: Uint8Array, pos: number, end: number, delimiter: 
 
 function finishBad(buf: Uint8Array, pos: number, end: number, delimiter: number): number {
   cursor.pos = skipField(buf, pos, end, delimiter);
-  cursor.status = fieldBad;
-  return Number.NaN;
+  return fieldBad;
 }
 
-/** Skips blanks and an opening quote; returns the position and sets cursor.frac to 1 when quoted. */
+/** Skips blanks and an opening quote; returns the position and sets cursor.quoted. */
 function openField(buf: Uint8Array, pos: number, end: number, delimiter: number): number {
   let p = pos;
   while (p < end && isBlank(buf[p], delimiter)) p++;
-  cursor.frac = 0;
+  cursor.quoted = false;
   if (p < end && buf[p] === quote) {
-    cursor.frac = 1;
+    cursor.quoted = true;
     p++;
     while (p < end && isBlank(buf[p], delimiter)) p++;
   }
@@ -74,12 +81,10 @@ function closeField(buf: Uint8Array, pos: number, end: number, delimiter: number
   return p >= end || buf[p] === delimiter;
 }
 
-/** True (and status empty) when the field holds nothing but blanks or an empty quote. */
+/** True when the field holds nothing but blanks or an empty quote. */
 function isEmptyField(buf: Uint8Array, p: number, end: number, delimiter: number, quoted: boolean): boolean {
   if (p < end && buf[p] !== delimiter && !(quoted && buf[p] === quote)) return false;
-  if (!closeField(buf, p, end, delimiter, quoted)) return false;
-  cursor.status = fieldEmpty;
-  return true;
+  return closeField(buf, p, end, delimiter, quoted);
 }
 
 function slowNumber(buf: Uint8Array, from: number, to: number, decimal: number): number {
@@ -88,69 +93,76 @@ function slowNumber(buf: Uint8Array, from: number, to: number, decimal: number):
   return Number(text);
 }
 
+/** A decimal number with the given decimal mark (and optional exponent) into parsed[0]. */
 export function parseNumberField(buf: Uint8Array, pos: number, end: number, delimiter: number, decimal: number): number {
-  let p = openField(buf, pos, end, delimiter);
-  const quoted = cursor.frac === 1;
+  let p = pos;
+  let c = buf[p]!;
+  let quoted = false;
+  if (c === space || c === tab || c === quote) {
+    p = openField(buf, pos, end, delimiter);
+    quoted = cursor.quoted;
+    c = buf[p]!;
+  }
   const start = p;
   let negative = false;
-  if (buf[p] === 45 || buf[p] === 43) {
-    negative = buf[p] === 45;
-    p++;
+  if (c === 45 || c === 43) {
+    negative = c === 45;
+    c = buf[++p]!;
   }
   let mantissa = 0;
   let digits = 0;
   let fractionDigits = 0;
-  let c = buf[p] ?? -1;
+  // Reads past `end` see the line's own terminator or later bytes, never outside the buffer
+  // while p < end is checked first.
   while (p < end && c >= 48 && c <= 57) {
     mantissa = mantissa * 10 + (c - 48);
     digits++;
-    c = buf[++p] ?? -1;
+    c = buf[++p]!;
   }
   if (p < end && c === decimal) {
-    c = buf[++p] ?? -1;
+    c = buf[++p]!;
     while (p < end && c >= 48 && c <= 57) {
       mantissa = mantissa * 10 + (c - 48);
       digits++;
       fractionDigits++;
-      c = buf[++p] ?? -1;
+      c = buf[++p]!;
     }
   }
   if (digits === 0) {
-    if (p === start && closeField(buf, p, end, delimiter, quoted)) {
-      cursor.status = fieldEmpty;
-      return Number.NaN;
-    }
+    if (p === start && closeField(buf, p, end, delimiter, quoted)) return fieldEmpty;
     return finishBad(buf, p, end, delimiter);
   }
   let exponent = 0;
   if (p < end && (c === 101 || c === 69)) {
-    c = buf[++p] ?? -1;
+    c = buf[++p]!;
     let exponentNegative = false;
     if (c === 45 || c === 43) {
       exponentNegative = c === 45;
-      c = buf[++p] ?? -1;
+      c = buf[++p]!;
     }
     let exponentDigits = 0;
     while (p < end && c >= 48 && c <= 57) {
       exponent = exponent * 10 + (c - 48);
       exponentDigits++;
-      c = buf[++p] ?? -1;
+      c = buf[++p]!;
     }
     if (exponentDigits === 0) return finishBad(buf, p, end, delimiter);
     if (exponentNegative) exponent = -exponent;
   }
   const stop = p;
-  if (!closeField(buf, p, end, delimiter, quoted)) return finishBad(buf, p, end, delimiter);
-  cursor.status = fieldOk;
+  if (!quoted && (p >= end || c === delimiter)) cursor.pos = p;
+  else if (!closeField(buf, p, end, delimiter, quoted)) return finishBad(buf, p, end, delimiter);
   const power = exponent - fractionDigits;
   let value: number;
-  if (mantissa >= exactMantissa || power > 22 || power < -22) value = slowNumber(buf, start, stop, decimal);
-  else if (power === 0) value = negative ? -mantissa : mantissa;
-  else {
-    value = power > 0 ? mantissa * powersOfTen[power]! : mantissa / powersOfTen[-power]!;
-    if (negative) value = -value;
+  if (mantissa >= exactMantissa || power > 22 || power < -22) {
+    parsed[0] = slowNumber(buf, start, stop, decimal);
+    return fieldOk;
   }
-  return value;
+  if (power === 0) value = mantissa;
+  else if (power < 0) value = mantissa / powersOfTen[-power]!;
+  else value = mantissa * powersOfTen[power]!;
+  parsed[0] = negative ? -value : value;
+  return fieldOk;
 }
 
 /** Reads exactly `count` digits (count 0: one or more); returns NaN when missing. */
@@ -185,11 +197,11 @@ function secondsAt(buf: Uint8Array, pos: number, end: number): number {
   return whole;
 }
 
-/** Elapsed hh:mm:ss(.sss); hours unbounded. */
+/** Elapsed hh:mm:ss(.sss), hours unbounded, as seconds into parsed[0]. */
 export function parseHmsField(buf: Uint8Array, pos: number, end: number, delimiter: number): number {
   const p = openField(buf, pos, end, delimiter);
-  const quoted = cursor.frac === 1;
-  if (isEmptyField(buf, p, end, delimiter, quoted)) return Number.NaN;
+  const quoted = cursor.quoted;
+  if (isEmptyField(buf, p, end, delimiter, quoted)) return fieldEmpty;
   const hours = digitsAt(buf, p, end, 1, 12);
   if (Number.isNaN(hours) || buf[cursor.pos] !== 58) return finishBad(buf, p, end, delimiter);
   const minutes = digitsAt(buf, cursor.pos + 1, end, 1, 2);
@@ -197,47 +209,46 @@ export function parseHmsField(buf: Uint8Array, pos: number, end: number, delimit
   const seconds = secondsAt(buf, cursor.pos + 1, end);
   if (Number.isNaN(seconds) || seconds >= 60) return finishBad(buf, p, end, delimiter);
   if (!closeField(buf, cursor.pos, end, delimiter, quoted)) return finishBad(buf, p, end, delimiter);
-  cursor.status = fieldOk;
-  return hmsSeconds(hours, minutes, seconds);
+  parsed[0] = hmsSeconds(hours, minutes, seconds);
+  return fieldOk;
 }
 
 /**
  * ISO-8601 / "YYYY-MM-DD hh:mm(:ss(.sss))" with optional Z or ±hh(:mm).
- * Returns whole seconds since the epoch; the fraction is left in cursor.frac.
+ * Puts whole seconds since the epoch in parsed[0] and the fraction in parsed[1].
  */
 export function parseTimestampField(buf: Uint8Array, pos: number, end: number, delimiter: number): number {
   const start = openField(buf, pos, end, delimiter);
-  const quoted = cursor.frac === 1;
-  if (isEmptyField(buf, start, end, delimiter, quoted)) return Number.NaN;
-  const bad = (): number => finishBad(buf, start, end, delimiter);
+  const quoted = cursor.quoted;
+  if (isEmptyField(buf, start, end, delimiter, quoted)) return fieldEmpty;
   const year = digitsAt(buf, start, end, 4, 4);
   const sep = buf[cursor.pos];
-  if (Number.isNaN(year) || (sep !== 45 && sep !== 47)) return bad();
+  if (Number.isNaN(year) || (sep !== 45 && sep !== 47)) return finishBad(buf, start, end, delimiter);
   const month = digitsAt(buf, cursor.pos + 1, end, 1, 2);
-  if (Number.isNaN(month) || (buf[cursor.pos] !== 45 && buf[cursor.pos] !== 47)) return bad();
+  if (Number.isNaN(month) || (buf[cursor.pos] !== 45 && buf[cursor.pos] !== 47)) return finishBad(buf, start, end, delimiter);
   const day = digitsAt(buf, cursor.pos + 1, end, 1, 2);
-  if (Number.isNaN(day)) return bad();
+  if (Number.isNaN(day)) return finishBad(buf, start, end, delimiter);
   let p = cursor.pos;
   if (buf[p] === 84 || buf[p] === 116) p++;
   else {
     const blankStart = p;
     while (p < end && (buf[p] === space || buf[p] === tab) && buf[p] !== delimiter) p++;
-    if (p === blankStart) return bad();
+    if (p === blankStart) return finishBad(buf, start, end, delimiter);
   }
   const hour = digitsAt(buf, p, end, 1, 2);
-  if (Number.isNaN(hour) || buf[cursor.pos] !== 58) return bad();
+  if (Number.isNaN(hour) || buf[cursor.pos] !== 58) return finishBad(buf, start, end, delimiter);
   const minute = digitsAt(buf, cursor.pos + 1, end, 2, 2);
-  if (Number.isNaN(minute)) return bad();
+  if (Number.isNaN(minute)) return finishBad(buf, start, end, delimiter);
   let second = 0;
   let frac = 0;
   p = cursor.pos;
   if (buf[p] === 58) {
     second = digitsAt(buf, p + 1, end, 2, 2);
-    if (Number.isNaN(second)) return bad();
+    if (Number.isNaN(second)) return finishBad(buf, start, end, delimiter);
     p = cursor.pos;
     if (buf[p] === 46 || buf[p] === 44) {
       const fraction = digitsAt(buf, p + 1, end, 1, 9);
-      if (Number.isNaN(fraction)) return bad();
+      if (Number.isNaN(fraction)) return finishBad(buf, start, end, delimiter);
       frac = fraction / powersOfTen[cursor.pos - p - 1]!;
       p = cursor.pos;
     }
@@ -248,29 +259,29 @@ export function parseTimestampField(buf: Uint8Array, pos: number, end: number, d
   if (z === 90 || z === 122) p++;
   else if (z === 43 || z === 45) {
     const oh = digitsAt(buf, p + 1, end, 2, 2);
-    if (Number.isNaN(oh)) return bad();
+    if (Number.isNaN(oh)) return finishBad(buf, start, end, delimiter);
     p = cursor.pos;
     if (buf[p] === 58) p++;
     let om = 0;
     if (p < end && (buf[p] ?? 0) >= 48 && (buf[p] ?? 0) <= 57) {
       om = digitsAt(buf, p, end, 2, 2);
-      if (Number.isNaN(om)) return bad();
+      if (Number.isNaN(om)) return finishBad(buf, start, end, delimiter);
       p = cursor.pos;
-    } else if (buf[p - 1] === 58) return bad();
-    if (oh > 14 || om > 59) return bad();
+    } else if (buf[p - 1] === 58) return finishBad(buf, start, end, delimiter);
+    if (oh > 14 || om > 59) return finishBad(buf, start, end, delimiter);
     offset = (z === 45 ? -1 : 1) * (oh * 60 + om);
   }
-  if (!validDate(year, month, day) || hour > 23 || minute > 59 || second > 59) return bad();
-  if (!closeField(buf, p, end, delimiter, quoted)) return bad();
-  cursor.status = fieldOk;
-  cursor.frac = frac;
-  return wholeSeconds(year, month, day, hour, minute, second, offset);
+  if (!validDate(year, month, day) || hour > 23 || minute > 59 || second > 59) return finishBad(buf, start, end, delimiter);
+  if (!closeField(buf, p, end, delimiter, quoted)) return finishBad(buf, start, end, delimiter);
+  parsed[0] = wholeSeconds(year, month, day, hour, minute, second, offset);
+  parsed[1] = frac;
+  return fieldOk;
 }
 
 /** Start of a text field's content (quotes and blanks stripped); its end is left in cursor.stop. */
 export function textFieldBounds(buf: Uint8Array, pos: number, end: number, delimiter: number): number {
   const start = openField(buf, pos, end, delimiter);
-  const quoted = cursor.frac === 1;
+  const quoted = cursor.quoted;
   let p = start;
   if (quoted) {
     while (p < end && buf[p] !== quote) p++;

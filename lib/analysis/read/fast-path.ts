@@ -8,19 +8,18 @@ import Papa from "papaparse";
 import { maxLineBytes } from "./limits";
 import { classifyMode } from "./mode-words";
 import type { ReadPlan } from "./plan";
-import {
-  cursor,
-  fieldEmpty,
-  parseHmsField,
-  parseNumberField,
-  parseTimestampField,
-  skipField,
-  textFieldBounds,
-} from "./fast-fields";
+import * as fields from "./fast-fields";
 import { reject } from "./reject";
 import type { RowSink } from "./row-sink";
+import * as slots from "./row-slots";
 import type { StringRowReader } from "./string-rows";
 
+// Module-local copies of imported bindings: a CommonJS build (tsx: the CLI and the bench) reaches
+// imports through getters, which costs more than the parsing itself in per-row code.
+const { cursor, fieldEmpty, fieldOk, parsed, parseHmsField, parseNumberField, parseTimestampField, skipField, textFieldBounds } = fields;
+const { inCurrent, inCycle, inDirection, inRecord, inStep, inTemperature, inTimeFrac, inTimeWhole, inVoltage } = slots;
+
+// Roles in this order: required numbers first, so `role <= roleCurrent` means required.
 const roleNone = 0;
 const roleTime = 1;
 const roleVoltage = 2;
@@ -30,6 +29,8 @@ const roleStep = 5;
 const roleCycle = 6;
 const roleRecord = 7;
 const roleMode = 8;
+/** The sink input slot each numeric role fills. */
+const slotOf: readonly number[] = [-1, inTimeWhole, inVoltage, inCurrent, inTemperature, inStep, inCycle, inRecord];
 
 export interface LineParser {
   push(chunk: Uint8Array): void;
@@ -38,6 +39,14 @@ export interface LineParser {
 
 /** `newline` is 10 for LF and CRLF files, 13 for the rare file with lone CR line ends. */
 export function createFastParser(plan: ReadPlan, sink: RowSink, readCells: StringRowReader, encoding: string, newline: number): LineParser {
+  const cur = cursor;
+  const out = parsed;
+  const parseNumber = parseNumberField;
+  const parseHms = parseHmsField;
+  const parseTimestamp = parseTimestampField;
+  const skip = skipField;
+  const textBounds = textFieldBounds;
+  const lineLimit = maxLineBytes;
   const f = plan.fields;
   const lastField = Math.max(f.time, f.voltage, f.current, f.temperature, f.step, f.cycle, f.record, f.mode);
   const roles = new Uint8Array(lastField + 1);
@@ -66,8 +75,6 @@ export function createFastParser(plan: ReadPlan, sink: RowSink, readCells: Strin
   let modeLength = -1;
   let modeDirection = Number.NaN;
 
-  /** Temperature, step, cycle, record of the current line, in role order. */
-  const extra = new Float64Array(4);
   let lineNumber = 1;
   let carry = new Uint8Array(4096);
   let carryLength = 0;
@@ -107,12 +114,13 @@ export function createFastParser(plan: ReadPlan, sink: RowSink, readCells: Strin
     if (line === unitLine) return sink.skipped("unit row", line);
     if (end === start) return;
 
-    let tWhole = Number.NaN;
-    let tFrac = 0;
-    let v = Number.NaN;
-    let i = Number.NaN;
-    extra.fill(Number.NaN);
-    let direction = Number.NaN;
+    const input = sink.input;
+    input[inTimeFrac] = 0;
+    input[inTemperature] = Number.NaN;
+    input[inStep] = Number.NaN;
+    input[inCycle] = Number.NaN;
+    input[inDirection] = Number.NaN;
+    input[inRecord] = Number.NaN;
     let odd = false;
     let p = start;
     for (let field = 0; field <= lastField; field++) {
@@ -121,52 +129,37 @@ export function createFastParser(plan: ReadPlan, sink: RowSink, readCells: Strin
         if (roles[field]! >= roleTime && roles[field]! <= roleCurrent) odd = true;
         break;
       }
-      switch (roles[field]) {
-        case roleNone:
-          cursor.pos = skipField(buf, p, end, delimiter);
+      const role = roles[field]!;
+      if (role === roleNone) cur.pos = skip(buf, p, end, delimiter);
+      else if (role === roleMode) {
+        const from = textBounds(buf, p, end, delimiter);
+        if (cur.status !== fieldEmpty) input[inDirection] = modeOf(buf, from, cur.stop, line, field);
+      } else {
+        const status =
+          role !== roleTime || timeFormat === 0
+            ? parseNumber(buf, p, end, delimiter, decimal)
+            : timeFormat === 1
+              ? parseHms(buf, p, end, delimiter)
+              : parseTimestamp(buf, p, end, delimiter);
+        if (status === fieldOk) {
+          input[slotOf[role]!] = out[0]!;
+          if (role === roleTime && timeFormat === 2) input[inTimeFrac] = out[1]!;
+        } else if (role <= roleCurrent) {
+          odd = true;
           break;
-        case roleTime:
-          if (timeFormat === 0) tWhole = parseNumberField(buf, p, end, delimiter, decimal);
-          else if (timeFormat === 1) tWhole = parseHmsField(buf, p, end, delimiter);
-          else {
-            tWhole = parseTimestampField(buf, p, end, delimiter);
-            tFrac = cursor.frac;
-          }
-          if (cursor.status !== 0) odd = true;
-          break;
-        case roleVoltage:
-          v = parseNumberField(buf, p, end, delimiter, decimal);
-          if (cursor.status !== 0) odd = true;
-          break;
-        case roleCurrent:
-          i = parseNumberField(buf, p, end, delimiter, decimal);
-          if (cursor.status !== 0) odd = true;
-          break;
-        case roleTemperature:
-        case roleStep:
-        case roleCycle:
-        case roleRecord:
-          // Optional numbers: a bad cell is simply missing (NaN), as in the string reader.
-          extra[roles[field]! - roleTemperature] = parseNumberField(buf, p, end, delimiter, decimal);
-          break;
-        case roleMode: {
-          const from = textFieldBounds(buf, p, end, delimiter);
-          if (cursor.status !== fieldEmpty) direction = modeOf(buf, from, cursor.stop, line, field);
-          break;
-        }
+        } else input[slotOf[role]!] = Number.NaN; // optional numbers: a bad cell is simply missing, as in the string reader
       }
-      if (odd) break;
-      p = cursor.pos + 1;
+      p = cur.pos + 1;
     }
     if (odd) return oddLine(buf, start, end, line, isLast);
-    sink.row(line, tWhole, tFrac, v, i, extra[0]!, extra[1]!, extra[2]!, direction, extra[3]!);
+    sink.commit(line);
   };
 
   const appendCarry = (chunk: Uint8Array, from: number, to: number) => {
     const length = carryLength + (to - from);
-    if (length > maxLineBytes) reject("line-too-long", `Line ${lineNumber} is longer than ${maxLineBytes} bytes; a log line is much shorter.`, { line: lineNumber });
+    if (length > lineLimit) reject("line-too-long", `Line ${lineNumber} is longer than ${lineLimit} bytes; a log line is much shorter.`, { line: lineNumber });
     if (length > carry.length) {
-      const wider = new Uint8Array(Math.min(maxLineBytes + 1, length * 2));
+      const wider = new Uint8Array(Math.min(lineLimit + 1, length * 2));
       wider.set(carry.subarray(0, carryLength));
       carry = wider;
     }
@@ -192,7 +185,7 @@ export function createFastParser(plan: ReadPlan, sink: RowSink, readCells: Strin
       for (;;) {
         const nl = chunk.indexOf(newline, pos);
         if (nl < 0) break;
-        if (nl - pos > maxLineBytes) reject("line-too-long", `Line ${lineNumber} is longer than ${maxLineBytes} bytes; a log line is much shorter.`, { line: lineNumber });
+        if (nl - pos > lineLimit) reject("line-too-long", `Line ${lineNumber} is longer than ${lineLimit} bytes; a log line is much shorter.`, { line: lineNumber });
         processLine(chunk, pos, nl, false);
         pos = nl + 1;
       }

@@ -9,17 +9,31 @@
  * the future, and is not reported.
  */
 import type { Finding } from "../types";
-import { gapFactor, maxListedGaps } from "./limits";
+import { gapFactor as gapFactorSetting, maxListedGaps } from "./limits";
+
+// A local copy: module imports may be getters in a CommonJS build, and this is read per row.
+const gapFactor = gapFactorSetting;
 
 export type SkipReason = "repeated header" | "unit row" | "comment" | "cut-off last line";
 
-const ringSize = 16;
+const ringSize = 16; // a power of two: the ring index wraps with a mask
 const lookAhead = 4;
 
+const scratch = new Float64Array(ringSize);
+
+/** Median of the first n values (n <= 16), by insertion sort in a scratch buffer: no allocation. */
 function medianOfFirst(values: Float64Array, n: number): number {
-  const sorted = Array.from(values.subarray(0, n)).sort((a, b) => a - b);
+  for (let k = 0; k < n; k++) {
+    const x = values[k]!;
+    let j = k - 1;
+    while (j >= 0 && scratch[j]! > x) {
+      scratch[j + 1] = scratch[j]!;
+      j--;
+    }
+    scratch[j + 1] = x;
+  }
   const mid = n >> 1;
-  return n % 2 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2;
+  return n % 2 ? scratch[mid]! : (scratch[mid - 1]! + scratch[mid]!) / 2;
 }
 
 function seconds(x: number): string {
@@ -61,13 +75,18 @@ export class QualityLog {
 
   private readonly skips = new Map<SkipReason, { count: number; line: number; time: number }>();
 
-  /** An interval dt > 0 ending at the row on `line` at time `t`. */
-  interval(dt: number, t: number, line: number): void {
+  /** Written by the caller before each call: [0] the interval dt, [1] the row's time t, [2] its record number. */
+  readonly input = new Float64Array(3);
+
+  /** The interval in `input`, ending at the row on `line`. */
+  interval(line: number): void {
+    const dt = this.input[0]!;
     if (this.pending !== null) {
       this.after[this.afterCount++] = dt;
       if (this.afterCount === lookAhead) this.settle();
     }
     if (!Number.isNaN(this.reference) && dt > gapFactor * this.reference && this.pending === null) {
+      const t = this.input[1]!;
       this.pending = { dt, before: this.reference, line, start: t - dt, end: t };
       this.afterCount = 0;
       return;
@@ -77,7 +96,7 @@ export class QualityLog {
 
   private remember(dt: number): void {
     this.ring[this.ringNext] = dt;
-    this.ringNext = (this.ringNext + 1) % ringSize;
+    this.ringNext = (this.ringNext + 1) & (ringSize - 1);
     if (this.ringCount < ringSize) this.ringCount++;
     // Recomputed every ring's worth (and while filling), so the cost per row stays O(1).
     if (this.ringNext === 0 || this.ringCount < ringSize) this.reference = this.ringCount >= 4 ? medianOfFirst(this.ring, this.ringCount) : Number.NaN;
@@ -112,14 +131,18 @@ export class QualityLog {
     });
   }
 
-  duplicate(t: number, line: number): void {
+  /** The row on `line` repeats the time before it. */
+  duplicate(line: number): void {
     if (this.duplicates++ === 0) {
       this.duplicateLine = line;
-      this.duplicateTime = t;
+      this.duplicateTime = this.input[1]!;
     }
   }
 
-  record(r: number, t: number, line: number): void {
+  /** The record number in input[2] of the row on `line`. */
+  record(line: number): void {
+    const r = this.input[2]!;
+    const t = this.input[1]!;
     if (Number.isNaN(r)) return;
     const step = r - this.previousRecord;
     if (step > 1 && Number.isInteger(step)) {

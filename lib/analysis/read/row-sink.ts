@@ -2,7 +2,8 @@
  * Where both parsing paths deliver rows. Converts units, settles the current
  * sign (holding the first rows back until it is known, then replaying them),
  * checks plausibility and time order, gathers data-quality findings and fills
- * batches. Rows arrive as plain numbers: no object per row.
+ * batches. A path writes a row into `input` (slots in row-slots.ts) and calls
+ * commit(line): nothing is allocated per row.
  */
 import type { Finding, SampleBatch, currentSigns } from "../types";
 import { Batcher } from "./batcher";
@@ -11,7 +12,12 @@ import type { ReadPlan } from "./plan";
 import { checkPlausible } from "./plausibility";
 import { QualityLog, type SkipReason } from "./quality";
 import { reject } from "./reject";
+import * as slots from "./row-slots";
 import { SignVote } from "./sign-vote";
+
+// Module-local copies of imported bindings: a CommonJS build (tsx: the CLI and the bench) reaches
+// imports through getters, which costs more than the parsing itself in per-row code.
+const { inCurrent, inCycle, inDirection, inputSlots, inRecord, inStep, inTemperature, inTimeFrac, inTimeWhole, inVoltage, rowCycle, rowDirection, rowI, rowRecord, rowSlots, rowStep, rowT, rowTemp, rowV } = slots;
 
 type CurrentSign = (typeof currentSigns)[number];
 
@@ -22,51 +28,33 @@ export interface SinkResult {
   signConfidence: number;
 }
 
-/** Rows held back at the start, as growable columns. */
+/** Rows held back at the start: one growable column per row slot. */
 class HeldRows {
   n = 0;
   line = new Int32Array(1024);
-  t = new Float64Array(1024);
-  v = new Float64Array(1024);
-  i = new Float64Array(1024);
-  temp = new Float64Array(1024);
-  step = new Float64Array(1024);
-  cycle = new Float64Array(1024);
-  dir = new Float64Array(1024);
-  record = new Float64Array(1024);
+  columns: Float64Array[] = Array.from({ length: rowSlots }, () => new Float64Array(1024));
 
-  push(line: number, t: number, v: number, i: number, temp: number, step: number, cycle: number, dir: number, record: number): void {
+  push(line: number, row: Float64Array): void {
     if (this.n === this.line.length) this.grow();
     const k = this.n++;
     this.line[k] = line;
-    this.t[k] = t;
-    this.v[k] = v;
-    this.i[k] = i;
-    this.temp[k] = temp;
-    this.step[k] = step;
-    this.cycle[k] = cycle;
-    this.dir[k] = dir;
-    this.record[k] = record;
+    for (let s = 0; s < rowSlots; s++) this.columns[s]![k] = row[s]!;
+  }
+
+  load(k: number, row: Float64Array): void {
+    for (let s = 0; s < rowSlots; s++) row[s] = this.columns[s]![k]!;
   }
 
   private grow(): void {
     const size = this.line.length * 2;
-    const widen = (a: Float64Array) => {
-      const b = new Float64Array(size);
-      b.set(a);
-      return b;
-    };
     const lines = new Int32Array(size);
     lines.set(this.line);
     this.line = lines;
-    this.t = widen(this.t);
-    this.v = widen(this.v);
-    this.i = widen(this.i);
-    this.temp = widen(this.temp);
-    this.step = widen(this.step);
-    this.cycle = widen(this.cycle);
-    this.dir = widen(this.dir);
-    this.record = widen(this.record);
+    this.columns = this.columns.map((c) => {
+      const wider = new Float64Array(size);
+      wider.set(c);
+      return wider;
+    });
   }
 }
 
@@ -75,7 +63,13 @@ interface BadColumn {
   lines: number[];
 }
 
+const probe = probeRows;
+const signLimit = signMaxRows;
+
 export class RowSink {
+  /** The row a parsing path is filling (see row-slots.ts). */
+  readonly input = new Float64Array(inputSlots);
+  private readonly row = new Float64Array(rowSlots);
   private readonly plan: ReadPlan;
   private readonly batcher: Batcher;
   private readonly quality = new QualityLog();
@@ -84,9 +78,20 @@ export class RowSink {
   private sign: CurrentSign | null;
   private signConfidence = 1;
 
+  private readonly timeMul: number;
+  private readonly timeDiv: number;
+  private readonly voltDiv: number;
+  private readonly ampDiv: number;
+  private readonly tempScale: number;
+  private readonly tempOffset: number;
+  private readonly hasMode: boolean;
+  private readonly hasRecord: boolean;
+  /** 1 positive-charges, -1 negative-charges, 0 magnitude with mode; set when the sign is known. */
+  private signFactor = 1;
+
+  /** [0] whole and [1] fractional part of the first row's time. */
+  private readonly origin = new Float64Array(2);
   private started = false;
-  private wholeOrigin = 0;
-  private fracOrigin = 0;
   private previousT = Number.NaN;
   private previousLine = 0;
   private lastDirection = 0;
@@ -96,6 +101,16 @@ export class RowSink {
   constructor(plan: ReadPlan, onBatch: (batch: SampleBatch) => void, batchSize: number) {
     this.plan = plan;
     this.sign = plan.sign === "decide" ? null : plan.sign;
+    if (this.sign !== null) this.signFactor = this.factorOf(this.sign);
+    this.timeMul = plan.timeMul;
+    this.timeDiv = plan.timeDiv;
+    this.voltDiv = plan.voltDiv;
+    this.ampDiv = plan.ampDiv;
+    // °C = raw * scale + offset. Kelvin: T - 273.15; Fahrenheit: (T - 32) * 5/9.
+    this.tempScale = plan.tempUnit === "degF" ? 5 / 9 : 1;
+    this.tempOffset = plan.tempUnit === "K" ? -273.15 : plan.tempUnit === "degF" ? (-32 * 5) / 9 : 0;
+    this.hasMode = plan.fields.mode >= 0;
+    this.hasRecord = plan.fields.record >= 0;
     this.batcher = new Batcher(
       batchSize,
       { temp: plan.fields.temperature >= 0, step: plan.fields.step >= 0, cycle: plan.fields.cycle >= 0 },
@@ -103,49 +118,56 @@ export class RowSink {
     );
   }
 
-  /**
-   * One data row. Time arrives as a whole part and a fraction (timestamps keep
-   * sub-second precision that way); direction is +1/-1/0 from a mode column,
-   * NaN when the mode cell is empty (the previous direction holds).
-   */
-  row(line: number, tWhole: number, tFrac: number, v: number, i: number, temp: number, step: number, cycle: number, direction: number, record: number): void {
-    const plan = this.plan;
+  private factorOf(sign: CurrentSign): number {
+    return sign === "negative-charges" ? -1 : sign === "magnitude-with-mode" ? 0 : 1;
+  }
+
+  /** Takes the row in `input`. Time arrives as a whole part and a fraction so timestamps keep sub-second precision. */
+  commit(line: number): void {
+    const input = this.input;
+    const row = this.row;
     if (!this.started) {
       this.started = true;
-      this.wholeOrigin = tWhole;
-      this.fracOrigin = tFrac;
+      this.origin[0] = input[inTimeWhole]!;
+      this.origin[1] = input[inTimeFrac]!;
     }
-    const t = ((tWhole - this.wholeOrigin + (tFrac - this.fracOrigin)) * plan.timeMul) / plan.timeDiv;
-    const volts = v / plan.voltDiv;
-    const amps = i / plan.ampDiv;
-    let celsius = temp;
-    if (plan.tempUnit === "K") celsius = temp - 273.15;
-    else if (plan.tempUnit === "degF") celsius = ((temp - 32) * 5) / 9;
-    if (!Number.isNaN(direction)) this.lastDirection = direction;
-    const dir = this.lastDirection;
+    row[rowT] = ((input[inTimeWhole]! - this.origin[0]! + (input[inTimeFrac]! - this.origin[1]!)) * this.timeMul) / this.timeDiv;
+    row[rowV] = input[inVoltage]! / this.voltDiv;
+    row[rowI] = input[inCurrent]! / this.ampDiv;
+    row[rowTemp] = input[inTemperature]! * this.tempScale + this.tempOffset;
+    row[rowStep] = input[inStep]!;
+    row[rowCycle] = input[inCycle]!;
+    const direction = input[inDirection]!;
+    if (direction === direction) this.lastDirection = direction; // not NaN: an empty mode cell keeps the last one
+    row[rowDirection] = this.lastDirection;
+    row[rowRecord] = input[inRecord]!;
 
     const held = this.held;
     if (held === null) {
-      this.emit(line, t, volts, this.signed(amps, dir), celsius, step, cycle, record);
+      this.applySign(row);
+      this.emit(line);
       return;
     }
-    held.push(line, t, volts, amps, celsius, step, cycle, dir, record);
-    if (this.sign === null) this.vote.add(volts, amps, plan.fields.mode >= 0 ? dir : Number.NaN);
+    held.push(line, row);
+    if (this.sign === null) this.vote.add(row[rowV]!, row[rowI]!, this.hasMode ? this.lastDirection : Number.NaN);
     if ((held.n & 1023) !== 0) return;
     if (this.sign === null) {
-      const verdict = held.n >= signMaxRows ? this.vote.final() : this.vote.early();
-      if (verdict) {
-        this.sign = verdict.sign;
-        this.signConfidence = verdict.confidence;
-      }
+      const verdict = held.n >= signLimit ? this.vote.final() : this.vote.early();
+      if (verdict) this.settleSign(verdict.sign, verdict.confidence);
     }
-    if (this.sign !== null && held.n >= probeRows) this.release();
+    if (this.sign !== null && held.n >= probe) this.release();
   }
 
-  private signed(amps: number, dir: number): number {
-    if (this.sign === "negative-charges") return -amps;
-    if (this.sign === "magnitude-with-mode") return dir * Math.abs(amps);
-    return amps;
+  private settleSign(sign: CurrentSign, confidence: number): void {
+    this.sign = sign;
+    this.signConfidence = confidence;
+    this.signFactor = this.factorOf(sign);
+  }
+
+  private applySign(row: Float64Array): void {
+    const f = this.signFactor;
+    if (f === 0) row[rowI] = row[rowDirection]! * Math.abs(row[rowI]!);
+    else if (f < 0) row[rowI] = -row[rowI]!;
   }
 
   /** Decides what is still open on the held rows, checks them, and replays them in order. */
@@ -154,32 +176,48 @@ export class RowSink {
     if (held === null) return;
     if (this.sign === null) {
       const verdict = this.vote.final();
-      this.sign = verdict.sign;
-      this.signConfidence = verdict.confidence;
+      this.settleSign(verdict.sign, verdict.confidence);
     }
     if (this.plan.sign === "magnitude-with-mode") this.signConfidence = this.plan.detection.columns.mode?.confidence ?? 1;
-    checkPlausible(this.plan, held);
+    checkPlausible(this.plan, {
+      n: held.n,
+      line: held.line,
+      v: held.columns[rowV]!,
+      i: held.columns[rowI]!,
+      temp: held.columns[rowTemp]!,
+    });
     this.held = null;
-    for (let k = 0; k < held.n; k++)
-      this.emit(held.line[k]!, held.t[k]!, held.v[k]!, this.signed(held.i[k]!, held.dir[k]!), held.temp[k]!, held.step[k]!, held.cycle[k]!, held.record[k]!);
+    const row = this.row;
+    for (let k = 0; k < held.n; k++) {
+      held.load(k, row);
+      this.applySign(row);
+      this.emit(held.line[k]!);
+    }
   }
 
-  private emit(line: number, t: number, v: number, i: number, temp: number, step: number, cycle: number, record: number): void {
+  private emit(line: number): void {
     if (this.bad.size > 0) return; // the file will be rejected: stop feeding the analysis
+    const row = this.row;
+    const t = row[rowT]!;
     const dt = t - this.previousT;
-    if (dt < 0)
-      reject(
-        "time-backwards",
-        `Time goes backwards on line ${line}: ${t} s after ${this.previousT} s on line ${this.previousLine}.`,
-        { line, column: this.plan.fields.time + 1 },
-      );
-    if (dt === 0) this.quality.duplicate(t, line);
-    else if (dt > 0) this.quality.interval(dt, t, line);
-    if (this.plan.fields.record >= 0) this.quality.record(record, t, line);
+    const q = this.quality.input;
+    q[0] = dt;
+    q[1] = t;
+    if (dt > 0) this.quality.interval(line);
+    else if (dt === 0) this.quality.duplicate(line);
+    else if (dt < 0)
+      reject("time-backwards", `Time goes backwards on line ${line}: ${t} s after ${this.previousT} s on line ${this.previousLine}.`, {
+        line,
+        column: this.plan.fields.time + 1,
+      });
+    if (this.hasRecord) {
+      q[2] = row[rowRecord]!;
+      this.quality.record(line);
+    }
     this.previousT = t;
     this.previousLine = line;
     this.delivered++;
-    this.batcher.push(line, t, v, i, temp, step, cycle);
+    this.batcher.push(line, row);
   }
 
   /** A required cell on `line` (zero-based field) is empty or not a number. */
@@ -217,7 +255,7 @@ export class RowSink {
   private rejectNonNumeric(): never {
     const entries = [...this.bad.entries()].sort((a, b) => (a[1].lines[0] ?? 0) - (b[1].lines[0] ?? 0));
     const describe = ([field, e]: [number, BadColumn]) => {
-      const where = e.lines.length === 1 && e.count === 1 ? `on line ${e.lines[0]}` : `first on line${e.lines.length > 1 ? "s" : ""} ${e.lines.join(", ")}`;
+      const where = e.count === 1 ? `on line ${e.lines[0]}` : `first on line${e.lines.length > 1 ? "s" : ""} ${e.lines.join(", ")}`;
       return `Column ${field + 1} (${this.plan.header[field] ?? "?"}) has ${e.count} non-numeric value${e.count === 1 ? "" : "s"}, ${where}`;
     };
     const [first, ...others] = entries;

@@ -6,6 +6,7 @@
 import { classifyMode } from "./mode-words";
 import type { ReadPlan } from "./plan";
 import type { RowSink } from "./row-sink";
+import { inCurrent, inCycle, inDirection, inRecord, inStep, inTemperature, inTimeFrac, inTimeWhole, inVoltage } from "./row-slots";
 import { filledWidth } from "./sniff";
 import { isBlankText, parseHmsText, parseNumberText, parseTimestampText } from "./text-values";
 
@@ -33,42 +34,48 @@ export function createStringRowReader(plan: ReadPlan, sink: RowSink): StringRowR
     if (first.startsWith("#") || first.startsWith("//")) return sink.skipped("comment", line);
     if (isLastLine && filledWidth(cells) < needed) return sink.skipped("cut-off last line", line);
 
+    const input = sink.input;
     let ok = true;
     const timeCell = cells[f.time] ?? "";
+    input[inTimeFrac] = 0;
     let tWhole = Number.NaN;
-    let tFrac = 0;
     if (plan.timeFormat === "elapsed") tWhole = parseNumberText(timeCell, decimal);
     else if (plan.timeFormat === "hms") tWhole = parseHmsText(timeCell);
     else {
       const ts = parseTimestampText(timeCell);
       if (ts !== null) {
         tWhole = ts.whole;
-        tFrac = ts.frac;
+        input[inTimeFrac] = ts.frac;
       }
     }
+    input[inTimeWhole] = tWhole;
     if (Number.isNaN(tWhole)) {
       sink.nonNumeric(line, f.time);
       ok = false;
     }
-    const v = parseNumberText(cells[f.voltage] ?? "", decimal);
-    if (Number.isNaN(v)) {
-      sink.nonNumeric(line, f.voltage);
-      ok = false;
+    for (const [field, slot] of [
+      [f.voltage, inVoltage],
+      [f.current, inCurrent],
+    ] as const) {
+      input[slot] = parseNumberText(cells[field] ?? "", decimal);
+      if (Number.isNaN(input[slot])) {
+        sink.nonNumeric(line, field);
+        ok = false;
+      }
     }
-    const i = parseNumberText(cells[f.current] ?? "", decimal);
-    if (Number.isNaN(i)) {
-      sink.nonNumeric(line, f.current);
-      ok = false;
-    }
-    let direction = Number.NaN;
+    input[inDirection] = Number.NaN;
     if (f.mode >= 0) {
       const text = (cells[f.mode] ?? "").trim();
       if (!isBlankText(text)) {
-        direction = classifyMode(text);
-        if (Number.isNaN(direction)) sink.unknownMode(line, f.mode, text);
+        input[inDirection] = classifyMode(text);
+        if (Number.isNaN(input[inDirection])) sink.unknownMode(line, f.mode, text);
       }
     }
     if (!ok) return;
-    sink.row(line, tWhole, tFrac, v, i, optional(f.temperature, cells), optional(f.step, cells), optional(f.cycle, cells), direction, optional(f.record, cells));
+    input[inTemperature] = optional(f.temperature, cells);
+    input[inStep] = optional(f.step, cells);
+    input[inCycle] = optional(f.cycle, cells);
+    input[inRecord] = optional(f.record, cells);
+    sink.commit(line);
   };
 }

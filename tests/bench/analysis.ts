@@ -1,0 +1,44 @@
+/**
+ * What the benchmark times: the full analysis (read + analyse through
+ * analyzeLog) once lib/analysis/index.ts provides it, the reader alone before.
+ */
+import { existsSync } from "node:fs";
+import { join } from "node:path";
+import { readLog } from "@/lib/analysis/read";
+
+export interface RunResult {
+  rows: number;
+  what: "read + analyse" | "reader alone";
+  path: string;
+}
+
+type AnalyzeLog = (source: AsyncIterable<Uint8Array>) => Promise<unknown>;
+
+async function findAnalyzeLog(): Promise<AnalyzeLog | null> {
+  const index = join(process.cwd(), "lib", "analysis", "index.ts");
+  if (!existsSync(index)) return null;
+  const mod = (await import(index)) as { analyzeLog?: AnalyzeLog };
+  return typeof mod.analyzeLog === "function" ? mod.analyzeLog : null;
+}
+
+function rowsOf(output: unknown): number | null {
+  if (typeof output !== "object" || output === null) return null;
+  const report = (output as { report?: { read?: { rows?: unknown }; rows?: unknown } }).report;
+  const rows = report?.read?.rows ?? report?.rows;
+  return typeof rows === "number" ? rows : null;
+}
+
+export async function runAnalysis(source: AsyncIterable<Uint8Array>): Promise<RunResult> {
+  const analyzeLog = await findAnalyzeLog();
+  if (analyzeLog !== null) {
+    const output = await analyzeLog(source);
+    return { rows: rowsOf(output) ?? Number.NaN, what: "read + analyse", path: "see report" };
+  }
+  // A consumer that touches every value, so no work can be skipped.
+  let checksum = 0;
+  const summary = await readLog(source, (b) => {
+    for (let k = 0; k < b.length; k++) checksum += b.v[k]! + b.i[k]!;
+  });
+  if (Number.isNaN(checksum)) throw new Error("NaN in the batches");
+  return { rows: summary.rows, what: "reader alone", path: summary.path };
+}

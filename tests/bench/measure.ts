@@ -1,0 +1,45 @@
+/**
+ * One benchmark measurement, run in a fresh child process so peak RSS belongs
+ * to this size alone. Prints one JSON line on stdout.
+ * Usage: tsx tests/bench/measure.ts <file> <rows>
+ */
+import { createReadStream, statSync } from "node:fs";
+import { runAnalysis } from "./analysis";
+
+export interface Measurement {
+  rows: number;
+  bytes: number;
+  seconds: number;
+  rowsPerSecond: number;
+  mbPerSecond: number;
+  peakRssMb: number;
+  what: string;
+  path: string;
+}
+
+async function main(): Promise<void> {
+  const [file, rowsText] = process.argv.slice(2);
+  if (file === undefined) throw new Error("usage: measure.ts <file> <rows>");
+  const bytes = statSync(file).size;
+  const start = performance.now();
+  const result = await runAnalysis(createReadStream(file, { highWaterMark: 1 << 20 }));
+  const seconds = (performance.now() - start) / 1000;
+  if (rowsText !== undefined && result.rows !== Number(rowsText)) throw new Error(`read ${result.rows} rows, expected ${rowsText}`);
+  const m: Measurement = {
+    rows: result.rows,
+    bytes,
+    seconds,
+    rowsPerSecond: result.rows / seconds,
+    mbPerSecond: bytes / 1e6 / seconds,
+    // maxRSS is in kilobytes (Node docs, process.resourceUsage).
+    peakRssMb: process.resourceUsage().maxRSS / 1024,
+    what: result.what,
+    path: result.path,
+  };
+  process.stdout.write(`${JSON.stringify(m)}\n`);
+}
+
+main().catch((error: unknown) => {
+  console.error(error);
+  process.exit(1);
+});

@@ -1,0 +1,90 @@
+/**
+ * npm run bench [-- --sizes 1e5,1e6,1e7] [-- --papaparse]
+ *
+ * Generates logs of about 1e5, 1e6 and 1e7 rows in a temporary directory,
+ * times the analysis of each in a fresh child process (so peak RSS is per
+ * size), deletes the files, and prints rows/s, MB/s and peak RSS against the
+ * targets: 1e7 rows in under 4 s with peak RSS under 256 MB.
+ */
+import { execFile } from "node:child_process";
+import { mkdtempSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { promisify } from "node:util";
+import { writeLog } from "./generate-log";
+import type { Measurement } from "./measure";
+import { formatModes, measurePapaparseMode, papaparseModeCount, type ModeResult } from "./papaparse-modes";
+
+const run = promisify(execFile);
+const targets = { rows: 1e7, seconds: 4, rssMb: 256 };
+
+function option(name: string): string | undefined {
+  const k = process.argv.indexOf(name);
+  return k >= 0 ? process.argv[k + 1] : undefined;
+}
+
+/** Runs a bench script in a fresh Node process with the same TypeScript loader as this one. */
+async function child(script: string, args: string[]): Promise<string> {
+  const { stdout } = await run(process.execPath, [...process.execArgv, join(__dirname, script), ...args], {
+    maxBuffer: 1 << 20,
+    env: { ...process.env, KNEEPOINT_BENCH_CHILD: "1" },
+  });
+  return stdout.trim().split("\n").at(-1) ?? "";
+}
+
+function table(rows: Measurement[]): string {
+  const lines = [
+    "| rows | MB | what | path | s | rows/s | MB/s | peak RSS MB |",
+    "|---:|---:|---|---|---:|---:|---:|---:|",
+    ...rows.map(
+      (m) =>
+        `| ${m.rows.toExponential(0)} | ${(m.bytes / 1e6).toFixed(1)} | ${m.what} | ${m.path} | ${m.seconds.toFixed(2)} | ${Math.round(m.rowsPerSecond).toLocaleString("en")} | ${m.mbPerSecond.toFixed(1)} | ${m.peakRssMb.toFixed(0)} |`,
+    ),
+  ];
+  return lines.join("\n");
+}
+
+async function main(): Promise<void> {
+  if (process.argv.includes("--measure-papaparse-mode")) {
+    const r = await measurePapaparseMode(Number(option("--measure-papaparse-mode")), option("--file") ?? "");
+    process.stdout.write(`${JSON.stringify(r)}\n`);
+    return;
+  }
+  const dir = mkdtempSync(join(tmpdir(), "kneepoint-bench-"));
+  try {
+    if (process.argv.includes("--papaparse")) {
+      const log = await writeLog(join(dir, "papaparse.csv"), 1_000_000);
+      const results: ModeResult[] = [];
+      for (let mode = 0; mode < papaparseModeCount; mode++)
+        results.push(JSON.parse(await child("run.ts", ["--measure-papaparse-mode", String(mode), "--file", log.path])) as ModeResult);
+      console.log(`papaparse on ${log.rows} rows (${(log.bytes / 1e6).toFixed(1)} MB), each mode in a fresh process:\n`);
+      console.log(formatModes(results));
+      rmSync(log.path);
+      console.log("");
+    }
+    const sizes = (option("--sizes") ?? "1e5,1e6,1e7").split(",").map(Number);
+    const results: Measurement[] = [];
+    for (const rows of sizes) {
+      const file = join(dir, `log-${rows}.csv`);
+      await writeLog(file, rows);
+      try {
+        results.push(JSON.parse(await child("measure.ts", [file, String(rows)])) as Measurement);
+      } finally {
+        rmSync(file, { force: true });
+      }
+    }
+    console.log(table(results));
+    const big = results.find((m) => m.rows >= targets.rows);
+    if (big)
+      console.log(
+        `\ntarget for ${targets.rows.toExponential(0)} rows: < ${targets.seconds} s and < ${targets.rssMb} MB peak RSS -> ${big.seconds < targets.seconds ? "time met" : "time MISSED"}, ${big.peakRssMb < targets.rssMb ? "memory met" : "memory MISSED"}`,
+      );
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+main().catch((error: unknown) => {
+  console.error(error);
+  process.exit(1);
+});
