@@ -14,6 +14,7 @@ import {
   uniqueIndex,
   uuid,
 } from "drizzle-orm/pg-core";
+import { runPurposes, runStatuses } from "../validations/runs";
 
 /* ------------------------------------------------------------------------------------------
  * Sign-in tables. Column names follow what better-auth's drizzle adapter expects
@@ -190,9 +191,7 @@ export type AuditEventRow = typeof auditEvent.$inferSelect;
  * Runs: one uploaded bench log of one cell, its analyses (versions) and their results.
  * ---------------------------------------------------------------------------------------- */
 
-export const runPurposes = ["capacity check", "cycle life", "internal resistance", "formation", "other"] as const;
 export const runPurpose = pgEnum("run_purpose", runPurposes);
-export const runStatuses = ["queued", "analysing", "complete", "failed"] as const;
 export const runStatus = pgEnum("run_status", runStatuses);
 export const runSource = pgEnum("run_source", ["browser", "api"]);
 
@@ -390,5 +389,3 @@ export const apiToken = pgTable(
 
 export type RunRow = typeof run.$inferSelect;
 export type AnalysisVersionRow = typeof analysisVersion.$inferSelect;
-export type RunPurpose = (typeof runPurposes)[number];
-export type RunStatus = (typeof runStatuses)[number];
