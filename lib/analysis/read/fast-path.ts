@@ -16,7 +16,7 @@ import type { StringRowReader } from "./string-rows";
 
 // Module-local copies of imported bindings: a CommonJS build (tsx: the CLI and the bench) reaches
 // imports through getters, which costs more than the parsing itself in per-row code.
-const { cursor, fieldEmpty, fieldOk, parsed, parseHmsField, parseNumberField, parseTimestampField, skipField, textFieldBounds } = fields;
+const { cursor, fieldEmpty, fieldOk, parsed, parseHmsField, quickNumberField, parseTimestampField, skipField, textFieldBounds } = fields;
 const { inCurrent, inCycle, inDirection, inRecord, inStep, inTemperature, inTimeFrac, inTimeWhole, inVoltage } = slots;
 
 // Roles in this order: required numbers first, so `role <= roleCurrent` means required.
@@ -41,7 +41,7 @@ export interface LineParser {
 export function createFastParser(plan: ReadPlan, sink: RowSink, readCells: StringRowReader, encoding: string, newline: number): LineParser {
   const cur = cursor;
   const out = parsed;
-  const parseNumber = parseNumberField;
+  const parseNumber = quickNumberField;
   const parseHms = parseHmsField;
   const parseTimestamp = parseTimestampField;
   const skip = skipField;

@@ -163,6 +163,9 @@ export function sniffLayout(lines: readonly string[], hints: LayoutHints = {}): 
     }
   }
   const { delimiter, rows, width } = best!;
+  const wide = rows.findIndex((cells) => cells.length > maxColumns);
+  if (wide >= 0)
+    reject("too-many-columns", `Line ${wide + 1} has ${rows[wide]!.length} columns; at most ${maxColumns} are read.`, { line: wide + 1 });
 
   let headerIndex = -1;
   if (hints.headerLine !== undefined) {
@@ -194,14 +197,16 @@ export function sniffLayout(lines: readonly string[], hints: LayoutHints = {}): 
         `Line ${firstData + 1} is already data: the file has no header row naming its columns (time, voltage, current).`,
         { line: firstData + 1 },
       );
+    if (rows.every((cells) => filledWidth(cells) <= 1) && rows.some((cells) => isValueCell(cells[0] ?? "")))
+      reject(
+        "no-header",
+        "Every line holds a single field: no comma, semicolon or tab separates columns, so time, voltage and current cannot be told apart.",
+        { line: 1 },
+      );
     reject("no-header", "No header row with column names and no data rows were found: this does not look like a cycling log.", { line: 1 });
   }
 
   const header = rows[headerIndex]!.map((c) => c.trim());
-  if (header.length > maxColumns)
-    reject("too-many-columns", `The header on line ${headerIndex + 1} has ${header.length} columns; at most ${maxColumns} are read.`, {
-      line: headerIndex + 1,
-    });
   const preamble = lines.slice(0, headerIndex).filter((l) => l.trim() !== "").map((l) => l.trim());
 
   let unitRow: SampleRow | null = null;
