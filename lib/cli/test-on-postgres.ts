@@ -1,0 +1,22 @@
+/**
+ * `npm run test:pg`: the integration suites again, on the PostgreSQL server named by
+ * TEST_DATABASE_URL (`.ci/run` starts one). Without that variable it says so and does nothing, so a
+ * developer without a server still gets a green `npm test` from the embedded database alone.
+ * Files run one at a time because they share the server's one database.
+ */
+import { spawnSync } from "node:child_process";
+import path from "node:path";
+
+const url = process.env.TEST_DATABASE_URL;
+if (!url) {
+  console.log("test:pg: TEST_DATABASE_URL is not set; the integration suites ran on the embedded database only.");
+  process.exit(0);
+}
+const integrationDirs = ["tests/db", "tests/registry", "tests/security", "tests/ingest", "tests/api", "tests/audit", "tests/flags"];
+console.log(`test:pg: running ${integrationDirs.join(", ")} on ${url.replace(/:[^:@/]+@/, ":***@")}`);
+const vitest = path.join(process.cwd(), "node_modules", "vitest", "vitest.mjs");
+const result = spawnSync(process.execPath, [vitest, "run", "--config", "tests/vitest.config.ts", "--no-file-parallelism", ...integrationDirs], {
+  stdio: "inherit",
+  env: { ...process.env, TEST_DATABASE_URL: url },
+});
+process.exit(result.status ?? 1);
