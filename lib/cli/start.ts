@@ -8,7 +8,7 @@ import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
-import { closeDatabase, openDatabase, installDatabaseHandle } from "@/lib/db/client";
+import { closeDatabase, installDatabaseHandle, openDatabase, type DatabaseTarget } from "@/lib/db/client";
 import { seedDemo } from "@/lib/db/seed";
 import { startLocalServices, type LocalServices } from "./local-services";
 
@@ -66,15 +66,15 @@ async function main(): Promise<void> {
   // Values set explicitly in the environment (e.g. the hosted upload service) win over local defaults.
   for (const [key, value] of Object.entries(services.env)) env[key] ??= value;
 
-  if (!env.DATABASE_URL) {
-    const handle = await openDatabase({ kind: "pglite", dataDir: String(env.KNEEPOINT_DATA_DIR) });
-    installDatabaseHandle(handle);
-    try {
-      const seeded = await seedDemo(handle.db);
-      console.log(seeded.seeded ? `Seeded the demo scenario (${seeded.users} users, ${seeded.cells} cells).` : "Database ready.");
-    } finally {
-      await closeDatabase();
-    }
+  // Migrate and seed before the server starts: a PGlite directory may have only one process at a time.
+  const target: DatabaseTarget = env.DATABASE_URL ? { kind: "postgres", url: env.DATABASE_URL } : { kind: "pglite", dataDir: String(env.KNEEPOINT_DATA_DIR) };
+  const handle = await openDatabase(target);
+  installDatabaseHandle(handle);
+  try {
+    const seeded = await seedDemo(handle.db);
+    console.log(seeded.seeded ? `Seeded the demo scenario (${seeded.users} users, ${seeded.cells} cells).` : "Database ready.");
+  } finally {
+    await closeDatabase();
   }
 
   if (!dev) buildIfStale(env);
