@@ -4,31 +4,21 @@
  * paths and with stream chunks that cut lines, CRLF pairs and characters.
  */
 import { describe, expect, it } from "vitest";
-import { logForms, readAll, sampleSeries, type LogForm, type ReadBack, type Series } from "../support/log-forms";
+import { logForms, readAll, readErrors, sampleSeries, type LogForm, type ReadBack, type Series } from "../support/log-forms";
 
 const series = sampleSeries();
 const forms = logForms(series);
 
 function expectSeries(form: LogForm, got: ReadBack, s: Series): void {
-  expect(got.summary.rows).toBe(s.length);
-  const t0 = s.t[0]!;
-  let worst = { t: 0, v: 0, i: 0, temp: 0 };
-  for (let k = 0; k < s.length; k++) {
-    worst = {
-      t: Math.max(worst.t, Math.abs(got.t[k]! - (s.t[k]! - t0))),
-      v: Math.max(worst.v, Math.abs(got.v[k]! - s.v[k]!)),
-      i: Math.max(worst.i, Math.abs(got.i[k]! - s.i[k]!)),
-      temp: form.withTemperature ? Math.max(worst.temp, Math.abs(got.temp![k]! - s.temp![k]!)) : 0,
-    };
-  }
+  const e = readErrors(form, got, s);
+  expect(e.rows).toBe(s.length);
   // The first time is rounded too, so a difference of times may be off by two roundings.
-  expect(worst.t).toBeLessThanOrEqual(2 * form.tolerance.t);
-  expect(worst.v).toBeLessThanOrEqual(form.tolerance.v);
-  expect(worst.i).toBeLessThanOrEqual(form.tolerance.i);
-  expect(worst.temp).toBeLessThanOrEqual(form.tolerance.temp);
+  expect(e.t).toBeLessThanOrEqual(2 * form.tolerance.t);
+  expect(e.v).toBeLessThanOrEqual(form.tolerance.v);
+  expect(e.i).toBeLessThanOrEqual(form.tolerance.i);
+  expect(e.temp).toBeLessThanOrEqual(form.tolerance.temp);
   expect(got.temp !== null).toBe(form.withTemperature);
-  expect(got.line.slice(0, 3)).toEqual([form.lineOf(0), form.lineOf(1), form.lineOf(2)]);
-  expect(got.line.at(-1)).toBe(form.lineOf(s.length - 1));
+  expect(e.lines.read).toEqual(e.lines.written);
 }
 
 describe("every input form reads back as the series", () => {

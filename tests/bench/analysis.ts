@@ -21,18 +21,20 @@ async function findAnalyzeLog(): Promise<AnalyzeLog | null> {
   return typeof mod.analyzeLog === "function" ? mod.analyzeLog : null;
 }
 
-function rowsOf(output: unknown): number | null {
-  if (typeof output !== "object" || output === null) return null;
-  const report = (output as { report?: { read?: { rows?: unknown }; rows?: unknown } }).report;
-  const rows = report?.read?.rows ?? report?.rows;
-  return typeof rows === "number" ? rows : null;
+/** The reader's part of the report ({ rows, parser }), read defensively: the report shape is the analyser's. */
+function readPartOf(output: unknown): { rows: number; parser: string } {
+  const read = (output as { report?: { read?: { rows?: unknown; parser?: unknown } | null } } | null)?.report?.read;
+  return {
+    rows: typeof read?.rows === "number" ? read.rows : Number.NaN,
+    parser: typeof read?.parser === "string" ? read.parser : "?",
+  };
 }
 
 export async function runAnalysis(source: AsyncIterable<Uint8Array>): Promise<RunResult> {
   const analyzeLog = await findAnalyzeLog();
   if (analyzeLog !== null) {
-    const output = await analyzeLog(source);
-    return { rows: rowsOf(output) ?? Number.NaN, what: "read + analyse", path: "see report" };
+    const read = readPartOf(await analyzeLog(source));
+    return { rows: read.rows, what: "read + analyse", path: read.parser };
   }
   // A consumer that touches every value, so no work can be skipped.
   let checksum = 0;

@@ -435,6 +435,35 @@ export async function readAll(bytes: Uint8Array, options: ReadOptions & { chunkS
   return { summary, ...out };
 }
 
+export interface ReadErrors {
+  rows: number;
+  /** Largest absolute differences from the series (times relative to the first row). */
+  t: number;
+  v: number;
+  i: number;
+  temp: number;
+  /** Physical lines of the first and last row as read, and as the form wrote them. */
+  lines: { read: [number, number]; written: [number, number] };
+}
+
+/** How far what was read is from the series it was written from. */
+export function readErrors(form: LogForm, got: ReadBack, s: Series): ReadErrors {
+  const t0 = s.t[0]!;
+  const e = { t: 0, v: 0, i: 0, temp: 0 };
+  for (let k = 0; k < s.length; k++) {
+    e.t = Math.max(e.t, Math.abs(got.t[k]! - (s.t[k]! - t0)));
+    e.v = Math.max(e.v, Math.abs(got.v[k]! - s.v[k]!));
+    e.i = Math.max(e.i, Math.abs(got.i[k]! - s.i[k]!));
+    if (form.withTemperature) e.temp = Math.max(e.temp, Math.abs((got.temp?.[k] ?? Number.NaN) - s.temp![k]!));
+  }
+  for (const key of ["t", "v", "i", "temp"] as const) if (Number.isNaN(e[key])) e[key] = Infinity;
+  return {
+    rows: got.summary.rows,
+    ...e,
+    lines: { read: [got.line[0] ?? 0, got.line.at(-1) ?? 0], written: [form.lineOf(0), form.lineOf(s.length - 1)] },
+  };
+}
+
 /**
  * A small invented test series: rest, constant-current charge, constant-voltage
  * hold, rest, constant-current discharge, rest, logged every second. The cell
