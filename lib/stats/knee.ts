@@ -19,9 +19,10 @@
  * Significance rule: the knee model is compared with a single straight line by the extra-sum-of-
  * squares F-test, F = ((RSS_line − RSS_knee)/2) / (RSS_knee/(n − 4)), on (2, n − 4) degrees of
  * freedom (α2 and x1 counted as the two extra parameters). Because x1 is searched, the null
- * distribution of this F is not exactly F (the change-point problem; Davies, Biometrika 74
- * (1987) 33), so the default level is a strict 0.01. A knee also requires the fade to speed up:
- * the slope after it must be more negative than before it.
+ * distribution of this F is not exactly F and the real false-alarm rate is above the nominal level
+ * (the change-point problem; Davies, Biometrika 74 (1987) 33), so the default level is a strict
+ * 0.01. A knee also requires the fade to speed up: the slope after it must be more negative than
+ * before it. `rssRatio` (RSS_knee/RSS_line) is reported for pages that want a stricter rule.
  */
 import { fUpperP } from "./distributions";
 import { leastSquares } from "./least-squares";
@@ -59,6 +60,8 @@ export interface KneeResult {
   slopeAfter: number;
   rss: number;
   rssLine: number;
+  /** rss/rssLine: how much of the straight line's misfit the knee model leaves. */
+  rssRatio: number;
   fStatistic: number;
   pValue: number;
   significant: boolean;
@@ -255,6 +258,7 @@ export function detectKnee(points: readonly XYPoint[], options: KneeOptions = {}
     slopeAfter,
     rss: fit.rss * rssFactor,
     rssLine: rssLineScaled * rssFactor,
+    rssRatio: rssLineScaled > 0 ? fit.rss / rssLineScaled : 1,
     fStatistic,
     pValue,
     significant,
