@@ -4,11 +4,14 @@
  * Work per sample is O(1) and allocation-free.
  */
 import { buildCycles, type AnalysedCycle } from "./cycles";
+import { ResistanceFinder, type ResistanceResult } from "./dcir";
+import { PlotCollector, RunCollector } from "./plot";
+import { SafetyMonitor } from "./safety";
 import { GapLog } from "./gaps";
 import { IntervalScale } from "./interval";
 import { NoiseScale } from "./robust-scale";
 import { meanCurrent as meanCurrentBinding, ringMask, SampleRing } from "./ring";
-import { Segmenter, type RunPart } from "./segmenter";
+import { Segmenter } from "./segmenter";
 import { StepBuilder, type AnalysedStep } from "./steps";
 import { edge, type Thresholds } from "./thresholds";
 import type { CellLimits, Detection, Finding, SampleBatch } from "./types";
@@ -37,12 +40,18 @@ export interface AnalyzerCore {
   gaps: GapLog;
   temperature: { start_C: number; max_C: number; min_C: number; max_at_s: number } | null;
   duration_s: number;
+  safety: Finding[];
+  resistance: { iec: ResistanceResult[]; edges: ResistanceResult[]; edgeCount: number };
+  plot: PlotCollector;
 }
+
+/** Plot material is gathered this many samples behind the newest, after boundaries are decided. */
+const plotLag = 200;
 
 export class StreamingAnalyzer {
   readonly ring = new SampleRing();
-  private readonly noiseI = new NoiseScale();
-  private readonly noiseV = new NoiseScale();
+  private readonly noiseI = new NoiseScale(MASK);
+  private readonly noiseV = new NoiseScale(MASK);
   private readonly interval = new IntervalScale();
   readonly gapLog = new GapLog();
   readonly th: Thresholds;
@@ -64,26 +73,48 @@ export class StreamingAnalyzer {
   private cVW = 0;
   private pendI = 0;
   private pendW = 0;
+  private shareV = 0;
+  private shareQ = 0;
+  private shareW = 0;
   private tempStart = NaN;
   private tempMax = -Infinity;
   private tempMin = Infinity;
   private tempMaxAt = 0;
   private tempSeen = false;
 
-  constructor(
-    readonly limits: CellLimits,
-    hooks: { onBoundary?: (index: number, kind: "edge" | "switch") => void; onParts?: (parts: RunPart[]) => void; onStep?: (s: AnalysedStep) => void } = {},
-  ) {
+  private readonly plot: PlotCollector;
+  private readonly collector: RunCollector;
+  private readonly safety: SafetyMonitor;
+  private readonly resistance: ResistanceFinder;
+
+  constructor(readonly limits: CellLimits) {
     const rated = limits.ratedCapacity_mAh;
     this.oneC = rated !== undefined && rated > 0 ? rated / 1000 : NaN;
     this.th = { sigmaI: 0, sigmaV: 0, restCurrent: 0, floorCurrent: 0, oneC: this.oneC };
-    this.stepBuilder = new StepBuilder(hooks.onStep);
+    this.plot = new PlotCollector(this.oneC);
+    this.collector = new RunCollector(this.ring);
+    this.safety = new SafetyMonitor(limits);
+    this.resistance = new ResistanceFinder(this.oneC);
+    this.stepBuilder = new StepBuilder((s, baseQ, curves, hists) => this.plot.onStep(s, baseQ, curves, hists));
     this.segmenter = new Segmenter(this.ring, {
       onParts: (parts, th) => {
-        hooks.onParts?.(parts);
+        const last = parts[parts.length - 1];
+        if (last) {
+          const material = this.collector.closeRun(
+            last.end,
+            parts.map((p) => ({ start: p.start, end: p.end, cv: p.hint === "cv" })),
+          );
+          parts.forEach((p, k) => {
+            p.curve = material[k]?.curve;
+            p.hist = material[k]?.hist ?? null;
+          });
+        }
         this.stepBuilder.addParts(parts, th);
       },
-      onBoundary: (index, kind) => hooks.onBoundary?.(index, kind),
+      onBoundary: (index, kind) => {
+        this.plot.onBoundary(this.ring, index, kind);
+        if (kind === "switch") this.collector.onSwitch(index);
+      },
     });
   }
 
@@ -135,8 +166,8 @@ export class StreamingAnalyzer {
       if (ai > this.maxAbsI) this.maxAbsI = ai;
       // Noise is estimated from every 4th pair of samples; thresholds follow every 64 samples.
       if ((n & 3) === 0 && n > 0) {
-        this.noiseI.add(i, r.i[jp] ?? i);
-        this.noiseV.add(v, r.v[jp] ?? v);
+        this.noiseI.add(r.i, n);
+        this.noiseV.add(r.v, n);
       }
       if (n < 256 || (n & 63) === 0) {
         th.sigmaI = this.noiseI.sigma();
@@ -145,7 +176,7 @@ export class StreamingAnalyzer {
         th.restCurrent = Math.max(th.sigmaI, th.floorCurrent);
       }
 
-      if (n > 0) this.integrate(n, t, v, i);
+      if (n > 0) this.integrate(n);
 
       if (temp === temp) {
         if (!this.tempSeen) {
@@ -160,21 +191,37 @@ export class StreamingAnalyzer {
       }
 
       this.segmenter.onSample(n, th, this.hasStep);
+
+      if ((n & 63) === 0) {
+        const typical = this.interval.typical();
+        this.safety.mergeGap = typical === typical ? Math.max(10, 5 * typical) : 10;
+      }
+      this.safety.onSample(r, n, th);
+      this.resistance.onSample(r, n, th);
+      this.plot.onSample(r, n);
+      const lagged = n - plotLag;
+      const collector = this.collector;
+      if (lagged > collector.fed && lagged >= collector.start) {
+        for (let k = collector.fed + 1; k <= lagged; k++) collector.feed(k);
+      }
     }
   }
 
   /** Integrates the interval (n−1, n) and completes sample n−1's cumulative shares. */
-  private integrate(n: number, t: number, v: number, i: number): void {
+  private integrate(n: number): void {
     const r = this.ring;
     const th = this.th;
     const j = n & MASK;
     const jp = (n - 1) & MASK;
+    const t = r.t[j] ?? 0;
+    const v = r.v[j] ?? 0;
+    const i = r.i[j] ?? 0;
     const tp = r.t[jp] ?? t;
     const vp = r.v[jp] ?? v;
     let ip = r.i[jp] ?? i;
     let dt = t - tp;
     if (dt < 0) dt = 0;
-    if ((n & 3) === 0 || n < 256) this.interval.add(dt);
+    if ((n & 3) === 0 || n < 256) this.interval.add(r.t, n, MASK);
     let iNew = i;
     let integrated = true;
     if (dt > this.interval.gapThreshold()) {
@@ -198,7 +245,10 @@ export class StreamingAnalyzer {
     }
     const half = integrated ? 0.5 * dt : 0;
     // Complete sample n−1: its pending left half plus its right half now.
-    this.addShare(this.pendI, this.pendW, vp, ip * half, half);
+    this.shareV = vp;
+    this.shareQ = ip * half;
+    this.shareW = half;
+    this.applyShare();
     this.storeCumulative(jp);
     this.pendI = iNew * half;
     this.pendW = half;
@@ -216,9 +266,22 @@ export class StreamingAnalyzer {
     r.vwCum[j] = this.cVW;
   }
 
-  private addShare(leftQ: number, leftW: number, v: number, rightQ: number, rightW: number): void {
-    const q = leftQ + rightQ;
-    const w = leftW + rightW;
+  /**
+   * Completes the newest-but-one sample's share: its pending left half plus the right half now
+   * known (charge `rightQ` over `rightW` seconds), at voltage `v`. Values are kept in fields, not
+   * passed, where this runs per sample, so nothing is boxed.
+   */
+  private addShare(v: number, rightQ: number, rightW: number): void {
+    this.shareV = v;
+    this.shareQ = rightQ;
+    this.shareW = rightW;
+    this.applyShare();
+  }
+
+  private applyShare(): void {
+    const q = this.pendI + this.shareQ;
+    const w = this.pendW + this.shareW;
+    const v = this.shareV;
     const e = v * q;
     this.cQ += q;
     if (q >= 0) {
@@ -238,12 +301,13 @@ export class StreamingAnalyzer {
     const last = r.count - 1;
     if (!this.finished && last >= 0) {
       const j = last & MASK;
-      this.addShare(this.pendI, this.pendW, r.v[j] ?? 0, 0, 0);
+      this.addShare(r.v[j] ?? 0, 0, 0);
       this.storeCumulative(j);
       this.segmenter.finish(last, this.th);
     }
     this.finished = true;
     const steps = this.stepBuilder.finish();
+    this.resistance.finish();
     const termC = this.limits.terminationC;
     const cycles = buildCycles(steps, {
       oneC: this.oneC,
@@ -260,6 +324,9 @@ export class StreamingAnalyzer {
       gaps: this.gapLog,
       temperature: this.tempSeen ? { start_C: this.tempStart, max_C: this.tempMax, min_C: this.tempMin, max_at_s: this.tempMaxAt } : null,
       duration_s: last >= 0 ? (r.t[last & MASK] ?? 0) : 0,
+      safety: this.safety.finish(),
+      resistance: { iec: this.resistance.iec, edges: this.resistance.edges, edgeCount: this.resistance.edgeCount },
+      plot: this.plot,
     };
   }
 }

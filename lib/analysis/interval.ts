@@ -9,7 +9,9 @@ export const gapFactor = 5;
 
 export class IntervalScale {
   private readonly med = new BlockMedian();
-  add(dt: number): void {
+  /** Adds the interval before sample k of a ring time column. */
+  add(t: Float64Array, k: number, mask: number): void {
+    const dt = (t[k & mask] ?? 0) - (t[(k - 1) & mask] ?? 0);
     if (dt > 0) this.med.add(dt);
   }
   typical(): number {

@@ -47,11 +47,17 @@ export class BlockMedian {
   }
 }
 
-/** σ estimate of a signal's sample-to-sample noise, fed with pairs of consecutive samples. */
+/**
+ * σ estimate of a signal's sample-to-sample noise, fed with sample k of a ring column
+ * (indices, not values, cross the call so no number is boxed on the hot path).
+ */
 export class NoiseScale {
   private readonly med = new BlockMedian();
-  add(x: number, previous: number): void {
-    this.med.add(Math.abs(x - previous));
+  constructor(private readonly mask: number) {}
+  add(column: Float64Array, k: number): void {
+    const x = column[k & this.mask] ?? 0;
+    const p = column[(k - 1) & this.mask] ?? 0;
+    this.med.add(x > p ? x - p : p - x);
   }
   sigma(): number {
     const m = this.med.value();

@@ -17,6 +17,7 @@
  *   (charge-phase.ts), not an edge; after the switch, further downward steps at the plateau are
  *   the taper continuing.
  */
+import type { PartCurve, PartHistogram } from "./plot";
 import { SwitchDetector, type SwitchCandidate } from "./charge-phase";
 import { emptySnapshot as emptySnapshotBinding, meanCurrent as meanCurrentBinding, meanVoltage as meanVoltageBinding, ownedStart as ownedStartBinding, ringMask, snapshotAt as snapshotAtBinding, type CumSnapshot, type SampleRing } from "./ring";
 import { hingeSse as hingeSseBinding } from "./line-fit";
@@ -58,6 +59,9 @@ export interface RunPart {
   switchMethod: SwitchCandidate["method"] | null;
   /** Mean voltage over the first 16 samples of a CV part (the plateau). */
   plateauV: number;
+  /** Plot material attached by the analyser before classification. */
+  curve?: PartCurve;
+  hist?: PartHistogram | null;
 }
 
 export interface SegmenterListener {
@@ -144,8 +148,12 @@ export class Segmenter {
     if (c <= this.runStart) return false;
     const preStart = Math.max(this.runStart, c - EDGE.preSamples);
     const nPre = c - preStart;
-    const pre = meanCurrent(r, preStart, c - 1);
-    const post = meanCurrent(r, c, n);
+    // Window means from prefix sums, written out so no number crosses a call on the hot path.
+    const si = r.si;
+    const sBefore = preStart > 0 ? (si[(preStart - 1) & MASK] ?? 0) : 0;
+    const sMid = si[(c - 1) & MASK] ?? 0;
+    const pre = (sMid - sBefore) / nPre;
+    const post = ((si[n & MASK] ?? 0) - sMid) / m;
     const d = post - pre;
     const thr = Math.max(EDGE.sigmas * th.sigmaI * Math.sqrt(1 / nPre + 1 / m), EDGE.relative * Math.max(Math.abs(pre), Math.abs(post)), th.floorCurrent);
     if (!(Math.abs(d) > thr)) return false;
@@ -171,8 +179,11 @@ export class Segmenter {
     const postStart = n - postN + 1;
     const preStart = Math.max(this.runStart, postStart - REGIME.preSamples);
     if (postStart - preStart < 8) return false;
-    const pre = meanCurrent(r, preStart, postStart - 1);
-    const post = meanCurrent(r, postStart, n);
+    const si = r.si;
+    const sBefore = preStart > 0 ? (si[(preStart - 1) & MASK] ?? 0) : 0;
+    const sMid = si[(postStart - 1) & MASK] ?? 0;
+    const pre = (sMid - sBefore) / (postStart - preStart);
+    const post = ((si[n & MASK] ?? 0) - sMid) / postN;
     const rest = th.restCurrent;
     const act = rest * REGIME.activeFactor;
     const aPre = Math.abs(pre);

@@ -26,6 +26,7 @@
  */
 import type { StepKind } from "./types";
 import type { RunPart } from "./segmenter";
+import type { PartCurve, PartHistogram } from "./plot";
 import type { CumSnapshot } from "./ring";
 import { voltageBand, type Thresholds } from "./thresholds";
 
@@ -60,6 +61,8 @@ export interface AnalysedStep {
 
 interface Pending {
   kind: StepKind;
+  curves: PartCurve[];
+  hists: PartHistogram[];
   first: RunPart;
   lastPart: RunPart;
   base: CumSnapshot;
@@ -75,7 +78,7 @@ export class StepBuilder {
   readonly steps: AnalysedStep[] = [];
   private pending: Pending | null = null;
 
-  constructor(private readonly onStep: (s: AnalysedStep) => void = () => {}) {}
+  constructor(private readonly onStep: (s: AnalysedStep, baseQ: number, curves: PartCurve[], hists: PartHistogram[]) => void = () => {}) {}
 
   addParts(parts: RunPart[], th: Thresholds): void {
     for (const p of parts) this.add(p, classify(p, th), th);
@@ -92,24 +95,30 @@ export class StepBuilder {
     if (q && q.kind !== kind && isFragmentOf(q, p, th)) {
       // Keep the longer part's end current: the fragment's few samples are noisier.
       q.lastPart = { ...p, finalCurrent: q.lastPart.finalCurrent };
-      q.last = p.last;
-      q.samples += p.end - p.start + 1;
+      this.extend(q, p);
       return;
     }
     if (q && mergeable(q, p, kind, th)) {
       q.lastPart = p;
-      q.last = p.last;
-      q.samples += p.end - p.start + 1;
+      this.extend(q, p);
       return;
     }
     if (q) this.flush(q);
-    this.pending = { kind, first: p, lastPart: p, base: p.base, last: p.last, samples: p.end - p.start + 1 };
+    this.pending = { kind, curves: [], hists: [], first: p, lastPart: p, base: p.base, last: p.base, samples: 0 };
+    this.extend(this.pending, p);
+  }
+
+  private extend(q: Pending, p: RunPart): void {
+    q.last = p.last;
+    q.samples += p.end - p.start + 1;
+    if (p.curve) q.curves.push(p.curve);
+    if (p.hist) q.hists.push(p.hist);
   }
 
   private flush(q: Pending): void {
     const s = toStep(q, this.steps.length + 1);
     this.steps.push(s);
-    this.onStep(s);
+    this.onStep(s, q.base.q, q.curves, q.hists);
   }
 }
 
