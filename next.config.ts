@@ -8,6 +8,8 @@ const nextConfig: NextConfig = {
   // Type errors are caught by `npm run typecheck` (part of `npm test` and CI); checking again
   // inside every build only doubles the build's time and memory on a 2-core machine.
   typescript: { ignoreBuildErrors: true },
+  // `forbidden()` answers a refused page with a real 403 and app/forbidden.tsx.
+  experimental: { authInterrupts: true },
 };
 
 export default nextConfig;

@@ -1,13 +1,16 @@
-import { redirect } from "next/navigation";
+import { forbidden, redirect } from "next/navigation";
 import type { ReactNode } from "react";
 import { AppShell } from "@/components/app-shell";
-import { Forbidden } from "@/components/forbidden";
 import { can } from "@/lib/auth/roles";
 import { currentUser } from "@/lib/auth/session";
 
-/** Pages for administrators. Each page checks again, since Next renders a layout and its page in parallel. */
+/**
+ * Pages for administrators: other roles get app/forbidden.tsx with a 403 status. Each page checks
+ * again, since Next renders a layout and its page in parallel.
+ */
 export default async function AdminLayout({ children }: { children: ReactNode }) {
   const user = await currentUser();
   if (!user) redirect("/sign-in");
-  return <AppShell user={user}>{can(user.role, "user.manage") ? children : <Forbidden />}</AppShell>;
+  if (!can(user.role, "user.manage")) forbidden();
+  return <AppShell user={user}>{children}</AppShell>;
 }

@@ -8,6 +8,10 @@ export const queryKeys = {
     all: ["cells"] as const,
     list: (params: Record<string, string | number | undefined>) => ["cells", "list", params] as const,
   },
+  audit: {
+    all: ["audit"] as const,
+    list: (params: Record<string, string | number | undefined>) => ["audit", "list", params] as const,
+  },
   cellTypes: {
     all: ["cell-types"] as const,
   },

@@ -29,6 +29,8 @@ export const capabilities = {
   /** Import a batch's serial list from CSV. */
   "cell.import": ["technician", "qa-lead", "engineer", "admin"],
   "user.manage": ["admin"],
+  /** Read the audit trail: who changed what, when, with the values before and after. */
+  "audit.read": ["qa-lead", "admin"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Capability = keyof typeof capabilities;

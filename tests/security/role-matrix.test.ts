@@ -43,6 +43,7 @@ const matrix: Record<string, Record<string, ActionRow | RouteRow>> = {
     GET: { kind: "route", allowed: "public", url: "/api/auth/get-session" },
     POST: { kind: "route", allowed: "public", url: "/api/auth/sign-out" },
   },
+  "api/audit/route.ts": { GET: { kind: "route", allowed: ["qa-lead", "admin"], url: "/api/audit" } },
   "api/batches/route.ts": { GET: { kind: "route", allowed: all, url: "/api/batches" } },
   "api/cells/route.ts": { GET: { kind: "route", allowed: all, url: "/api/cells" } },
   "api/cell-types/route.ts": { GET: { kind: "route", allowed: all, url: "/api/cell-types" } },

@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { Forbidden } from "@/components/forbidden";
+import { forbidden } from "next/navigation";
 import { PageTitle } from "@/components/ui/panel";
 import { cellClass, headersOf, SimpleTable } from "@/components/ui/simple-table";
 import { can, isRole, roleLabels, roles } from "@/lib/auth/roles";
@@ -14,7 +14,7 @@ const roleOptions = roles.map((role) => ({ role, label: roleLabels[role] }));
 
 export default async function PeoplePage() {
   const me = await currentUser();
-  if (!me || !can(me.role, "user.manage")) return <Forbidden />;
+  if (!me || !can(me.role, "user.manage")) forbidden();
   const users = await listUsers();
 
   return (
