@@ -101,7 +101,7 @@ export function CellTable({ batchId, batches = [], caption, empty }: CellTablePr
         <label className="sr-only" htmlFor="cell-status">
           Filter by status
         </label>
-        <select id="cell-status" value={params.status ?? ""} onChange={(e) => set({ status: e.target.value })} className={`${inputClass} w-auto`}>
+        <select id="cell-status" value={params.status ?? ""} onChange={(e) => set({ status: e.target.value })} className={`${inputClass} w-auto!`}>
           <option value="">Any status</option>
           {cellStatuses.map((s) => (
             <option key={s} value={s}>
@@ -114,7 +114,7 @@ export function CellTable({ batchId, batches = [], caption, empty }: CellTablePr
             <label className="sr-only" htmlFor="cell-batch">
               Filter by batch
             </label>
-            <select id="cell-batch" value={params.batchId ?? ""} onChange={(e) => set({ batchId: e.target.value })} className={`${inputClass} w-auto`}>
+            <select id="cell-batch" value={params.batchId ?? ""} onChange={(e) => set({ batchId: e.target.value })} className={`${inputClass} w-auto!`}>
               <option value="">Any batch</option>
               {batches.map((b) => (
                 <option key={b.id} value={b.id}>

@@ -26,7 +26,7 @@ const columns: Column<BatchListItem>[] = [
   },
   { key: "type", header: "Cell type", sortKey: "cellType", cell: (b) => b.cellTypeName },
   { key: "supplier", header: "Supplier", sortKey: "supplier", cell: (b) => b.supplier },
-  { key: "received", header: "Received", sortKey: "receivedOn", cell: (b) => b.receivedOn },
+  { key: "received", header: "Received", sortKey: "receivedOn", cell: (b) => <span className="whitespace-nowrap">{b.receivedOn}</span> },
   { key: "qty", header: "Cells (registered / ordered)", sortKey: "quantity", align: "right", cell: (b) => `${b.registeredCells} / ${b.quantity}` },
   {
     key: "spec",
@@ -67,12 +67,12 @@ export function BatchTable({ cellTypes }: { cellTypes: { id: string; name: strin
           placeholder="Search lot, supplier or cell type"
           defaultValue={params.q}
           onChange={(e) => set({ q: e.target.value })}
-          className={`${inputClass} max-w-xs`}
+          className={`${inputClass} w-72!`}
         />
         <label className="sr-only" htmlFor="batch-disposition">
           Decision
         </label>
-        <select id="batch-disposition" value={params.disposition ?? ""} onChange={(e) => set({ disposition: e.target.value })} className={`${inputClass} w-auto`}>
+        <select id="batch-disposition" value={params.disposition ?? ""} onChange={(e) => set({ disposition: e.target.value })} className={`${inputClass} w-auto!`}>
           <option value="">Any decision</option>
           <option value="pending">pending</option>
           <option value="accepted">accepted</option>
@@ -82,7 +82,7 @@ export function BatchTable({ cellTypes }: { cellTypes: { id: string; name: strin
         <label className="sr-only" htmlFor="batch-type">
           Cell type
         </label>
-        <select id="batch-type" value={params.cellTypeId ?? ""} onChange={(e) => set({ cellTypeId: e.target.value })} className={`${inputClass} w-auto`}>
+        <select id="batch-type" value={params.cellTypeId ?? ""} onChange={(e) => set({ cellTypeId: e.target.value })} className={`${inputClass} w-auto!`}>
           <option value="">Any cell type</option>
           {cellTypes.map((t) => (
             <option key={t.id} value={t.id}>
