@@ -96,7 +96,7 @@ export function CellTable({ batchId, batches = [], caption, empty }: CellTablePr
           placeholder={batchId ? "Search serial" : "Search serial, lot or cell type"}
           defaultValue={params.q}
           onChange={(e) => set({ q: e.target.value })}
-          className={`${inputClass} max-w-xs`}
+          className={`${inputClass} w-72!`}
         />
         <label className="sr-only" htmlFor="cell-status">
           Filter by status
