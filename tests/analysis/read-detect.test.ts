@@ -116,6 +116,14 @@ describe("an explicit column map", () => {
     expect(got.temp).toEqual(detected.temp);
   });
 
+  it("follows a saved column's name when the column has moved", async () => {
+    const saved = { ...map, voltage: { index: 1, name: "B", unit: "mV" as const } };
+    const moved = csv("X,A,B,C,D", 40, (k) => `0,${k * 1000},${(3600 + k).toFixed(1)},500.0,${k}`);
+    const got = await readAll(moved, { columnMap: { ...saved, time: { index: 1, name: "A", unit: "ms" }, current: { index: 2, name: "C", unit: "mA" } } });
+    expect(got.v[0]).toBe(3.6);
+    expect(got.summary.detection.columns.voltage?.index).toBe(2);
+  });
+
   it("is rejected with a located error when it does not fit the file", async () => {
     const wide = { ...map, voltage: { index: 9, unit: "V" as const } };
     await expect(readAll(text, { columnMap: wide })).rejects.toMatchObject({ detail: { code: "bad-column-map", line: 1, column: 10 } });

@@ -1,16 +1,20 @@
 /**
  * What the benchmark times: the full analysis (read + analyse through
- * analyzeLog) once lib/analysis/index.ts provides it, the reader alone before.
+ * analyzeLog) once lib/analysis/index.ts provides it, and the reader alone.
  */
 import { existsSync } from "node:fs";
 import { join } from "node:path";
 import { readLog } from "@/lib/analysis/read";
 
+export type RunKind = "read + analyse" | "reader alone";
+
 export interface RunResult {
   rows: number;
-  what: "read + analyse" | "reader alone";
+  what: RunKind;
   path: string;
 }
+
+export type Run = (source: AsyncIterable<Uint8Array>) => Promise<RunResult>;
 
 type AnalyzeLog = (source: AsyncIterable<Uint8Array>) => Promise<unknown>;
 
@@ -30,12 +34,7 @@ function readPartOf(output: unknown): { rows: number; parser: string } {
   };
 }
 
-export async function runAnalysis(source: AsyncIterable<Uint8Array>): Promise<RunResult> {
-  const analyzeLog = await findAnalyzeLog();
-  if (analyzeLog !== null) {
-    const read = readPartOf(await analyzeLog(source));
-    return { rows: read.rows, what: "read + analyse", path: read.parser };
-  }
+const readerAlone: Run = async (source) => {
   // A consumer that touches every value, so no work can be skipped.
   let checksum = 0;
   const summary = await readLog(source, (b) => {
@@ -43,4 +42,15 @@ export async function runAnalysis(source: AsyncIterable<Uint8Array>): Promise<Ru
   });
   if (Number.isNaN(checksum)) throw new Error("NaN in the batches");
   return { rows: summary.rows, what: "reader alone", path: summary.path };
+};
+
+/** Loads what is to be timed (module loading is not part of the measurement). */
+export async function prepareRun(kind: RunKind): Promise<Run | null> {
+  if (kind === "reader alone") return readerAlone;
+  const analyzeLog = await findAnalyzeLog();
+  if (analyzeLog === null) return null;
+  return async (source) => {
+    const read = readPartOf(await analyzeLog(source));
+    return { rows: read.rows, what: "read + analyse", path: read.parser };
+  };
 }

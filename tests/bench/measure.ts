@@ -1,10 +1,10 @@
 /**
  * One benchmark measurement, run in a fresh child process so peak RSS belongs
  * to this size alone. Prints one JSON line on stdout.
- * Usage: tsx tests/bench/measure.ts <file> <rows>
+ * Usage: tsx tests/bench/measure.ts <file> <rows> <"read + analyse" | "reader alone">
  */
 import { createReadStream, statSync } from "node:fs";
-import { runAnalysis } from "./analysis";
+import { prepareRun, type RunKind } from "./analysis";
 
 export interface Measurement {
   rows: number;
@@ -18,11 +18,16 @@ export interface Measurement {
 }
 
 async function main(): Promise<void> {
-  const [file, rowsText] = process.argv.slice(2);
-  if (file === undefined) throw new Error("usage: measure.ts <file> <rows>");
+  const [file, rowsText, kind] = process.argv.slice(2);
+  if (file === undefined || kind === undefined) throw new Error("usage: measure.ts <file> <rows> <kind>");
+  const run = await prepareRun(kind as RunKind);
+  if (run === null) {
+    process.stdout.write("null\n");
+    return;
+  }
   const bytes = statSync(file).size;
   const start = performance.now();
-  const result = await runAnalysis(createReadStream(file, { highWaterMark: 1 << 20 }));
+  const result = await run(createReadStream(file, { highWaterMark: 1 << 20 }));
   const seconds = (performance.now() - start) / 1000;
   if (rowsText !== undefined && result.rows !== Number(rowsText)) throw new Error(`read ${result.rows} rows, expected ${rowsText}`);
   const m: Measurement = {

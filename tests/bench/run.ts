@@ -68,16 +68,19 @@ async function main(): Promise<void> {
       const file = join(dir, `log-${rows}.csv`);
       await writeLog(file, rows);
       try {
-        results.push(JSON.parse(await child("measure.ts", [file, String(rows)])) as Measurement);
+        for (const kind of ["reader alone", "read + analyse"] as const) {
+          const m = JSON.parse(await child("measure.ts", [file, String(rows), kind])) as Measurement | null;
+          if (m) results.push(m);
+        }
       } finally {
         rmSync(file, { force: true });
       }
     }
     console.log(table(results));
-    const big = results.find((m) => m.rows >= targets.rows);
+    const big = results.find((m) => m.rows >= targets.rows && m.what === "read + analyse") ?? results.find((m) => m.rows >= targets.rows);
     if (big)
       console.log(
-        `\ntarget for ${targets.rows.toExponential(0)} rows: < ${targets.seconds} s and < ${targets.rssMb} MB peak RSS -> ${big.seconds < targets.seconds ? "time met" : "time MISSED"}, ${big.peakRssMb < targets.rssMb ? "memory met" : "memory MISSED"}`,
+        `\ntarget for ${targets.rows.toExponential(0)} rows (${big.what}): < ${targets.seconds} s and < ${targets.rssMb} MB peak RSS -> ${big.seconds < targets.seconds ? "time met" : "time MISSED"}, ${big.peakRssMb < targets.rssMb ? "memory met" : "memory MISSED"}`,
       );
   } finally {
     rmSync(dir, { recursive: true, force: true });

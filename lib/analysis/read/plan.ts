@@ -67,6 +67,19 @@ function displayTimeUnit(format: TimeFormat, unit: TimeUnit): string {
   return format === "hms" ? "hh:mm:ss" : format === "timestamp" ? "ISO 8601" : unit;
 }
 
+/**
+ * A saved map names its columns: when the named header has moved in a new
+ * file (one column added in front, say), follow the name, if exactly one
+ * header cell carries it. Otherwise the index stands.
+ */
+function matchSavedName(header: readonly string[], index: number, name: string | undefined): number {
+  if (name === undefined) return index;
+  const key = name.trim().toLowerCase();
+  if ((header[index] ?? "").trim().toLowerCase() === key) return index;
+  const hits = header.flatMap((h, k) => (h.trim().toLowerCase() === key ? [k] : []));
+  return hits.length === 1 ? hits[0]! : index;
+}
+
 function parseMap(raw: ColumnMapInput): ColumnMap {
   const parsed = columnMapSchema.safeParse(raw);
   if (!parsed.success) {
@@ -86,20 +99,22 @@ export function buildPlan(layout: Layout, rawMap?: ColumnMapInput): ReadPlan {
   const refFor = (role: ColumnRole): { index: number; confidence: number } | undefined => {
     const mapped = map?.[role];
     if (mapped !== undefined) {
-      if (mapped.index >= width)
+      const index = matchSavedName(layout.header, mapped.index, mapped.name);
+      if (index >= width)
         reject(
           "bad-column-map",
-          `The column map puts ${role} in column ${mapped.index + 1}, but the header on line ${layout.headerLine} has ${layout.header.length} columns.`,
-          { line: layout.headerLine, column: mapped.index + 1 },
+          `The column map puts ${role} in column ${index + 1}, but the header on line ${layout.headerLine} has ${layout.header.length} columns.`,
+          { line: layout.headerLine, column: index + 1 },
         );
-      return { index: mapped.index, confidence: 1 };
+      return { index, confidence: 1 };
     }
     const c = chosen[role];
     if (c === undefined) return undefined;
     // A column the map already claims for another role is not reused.
-    const claimed = (["time", "voltage", "current", "temperature", "mode", "step", "cycle"] as const).some(
-      (r) => r !== role && map?.[r]?.index === c.index,
-    );
+    const claimed = (["time", "voltage", "current", "temperature", "mode", "step", "cycle"] as const).some((r) => {
+      const other = map?.[r];
+      return r !== role && other !== undefined && matchSavedName(layout.header, other.index, other.name) === c.index;
+    });
     return claimed ? undefined : c;
   };
 
