@@ -31,6 +31,16 @@ export const capabilities = {
   "user.manage": ["admin"],
   /** Read the audit trail: who changed what, when, with the values before and after. */
   "audit.read": ["qa-lead", "admin"],
+  /** Upload bench logs (browser or bench API) and start their analysis. */
+  "run.upload": ["technician", "engineer", "admin"],
+  /** Analyse a stored run again, e.g. with a corrected column map (a new analysis version). */
+  "run.analyse": ["technician", "engineer", "admin"],
+  /** Read runs, their analyses, plots and raw files. */
+  "run.read": everyone,
+  /** Save named column maps from the upload page's correction. */
+  "column-map.write": ["technician", "engineer", "admin"],
+  /** Create and revoke one's own personal API tokens. */
+  "token.manage": everyone,
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Capability = keyof typeof capabilities;

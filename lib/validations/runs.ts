@@ -72,3 +72,23 @@ export const saveColumnMapInput = z.object({
 
 export const createApiTokenInput = z.object({ name: textField("Name", 80) });
 export const revokeApiTokenInput = z.object({ tokenId: z.uuid({ error: "Choose a token" }) });
+
+/** The same fields as JSON from the browser's upload client (the SDK needs a JSON-typed input). */
+export const benchLogInput = z
+  .object({
+    cellSerial: z.string(),
+    purpose: z.enum(runPurposes),
+    ambientTempC: z.number().optional(),
+    operatorNote: z.string().optional(),
+    columnMapId: z.string().optional(),
+    columnMap: columnMapSchema.optional(),
+    batchId: z.string().optional(),
+    cellTypeId: z.string().optional(),
+  })
+  .transform((value, ctx): RunUploadInput => {
+    const parsed = runUploadInput.safeParse(value);
+    if (parsed.success) return parsed.data;
+    for (const issue of parsed.error.issues) ctx.addIssue({ code: "custom", path: issue.path, message: issue.message });
+    return z.NEVER;
+  });
+export type BenchLogInput = z.input<typeof benchLogInput>;

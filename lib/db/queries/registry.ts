@@ -288,8 +288,9 @@ async function resolveCellType(tx: Executor, input: CellInput): Promise<{ batchI
   return { batchId: null, cellTypeId: input.cellTypeId };
 }
 
-export async function createCell(input: CellInput, actor: AuditActor): Promise<{ id: string; serial: string }> {
-  const db = await getDb();
+/** Registers one cell. Given a transaction, it joins it (as a savepoint), e.g. when an upload registers its cell. */
+export async function createCell(input: CellInput, actor: AuditActor, exec?: Executor): Promise<{ id: string; serial: string }> {
+  const db = exec ?? (await getDb());
   try {
     return await db.transaction(async (tx) => {
       const resolved = await resolveCellType(tx, input);

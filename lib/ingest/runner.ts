@@ -1,0 +1,171 @@
+import "server-only";
+import {
+  claimQueuedRun,
+  completeAnalysis,
+  failAnalysis,
+  recoverInterruptedRuns,
+  releaseClaim,
+  type ClaimedRun,
+} from "@/lib/db/queries/runs";
+import { storedFileUrl } from "@/lib/uploads/storage";
+import { WorkerPool } from "./pool";
+import { analysisRows, ReportNotUnderstood } from "./report-rows";
+import type { AnalyseResult, HashResult } from "./worker/jobs";
+
+/** A run whose analysis crashed the worker this often is failed instead of retried. */
+export const maxAnalysisAttempts = 2;
+
+/** Analyses at once: 1 by default (2 cores serve pages too), at most 2, from KNEEPOINT_ANALYSIS_CONCURRENCY. */
+function analysisConcurrency(): number {
+  const n = Number(process.env.KNEEPOINT_ANALYSIS_CONCURRENCY ?? 1);
+  return n >= 2 ? 2 : 1;
+}
+
+interface IngestState {
+  pool?: WorkerPool;
+  queue?: RunQueue;
+  recovery?: Promise<void>;
+}
+// Route handlers, actions and instrumentation are separate module instances: share one state.
+const stateKey = Symbol.for("kneepoint.ingest");
+const state = ((globalThis as Record<symbol, unknown>)[stateKey] ??= {}) as IngestState;
+
+/** The worker threads: one per concurrent analysis plus one kept for hashing fresh uploads. */
+export function workerPool(): WorkerPool {
+  state.pool ??= new WorkerPool(analysisConcurrency() + 1);
+  return state.pool;
+}
+
+/** SHA-256 of a stored file, computed in a worker while streaming it; ahead of queued analyses. */
+export async function hashStoredFile(fileKey: string): Promise<HashResult> {
+  return workerPool().run({ kind: "hash", url: await storedFileUrl(fileKey) }, { urgent: true });
+}
+
+async function analyse(claim: ClaimedRun): Promise<AnalyseResult> {
+  return workerPool().run({
+    kind: "analyse",
+    url: await storedFileUrl(claim.fileKey),
+    fileName: claim.fileName,
+    columnMap: claim.columnMap,
+    limits: claim.limits,
+    expectedSha256: claim.sha256,
+  });
+}
+
+/** Runs one queued run's analysis and stores its outcome. Returns whether the run must run again. */
+async function processRun(runId: string): Promise<boolean> {
+  const claim = await claimQueuedRun(runId);
+  if (!claim) return false;
+  let result: AnalyseResult;
+  try {
+    result = await analyse(claim);
+  } catch (error) {
+    const message = error instanceof Error ? error.message : String(error);
+    console.error(`Analysis of run ${runId} (attempt ${claim.attempts}) failed: ${message}`);
+    return (await releaseClaim(claim, message, maxAnalysisAttempts)) === "queued";
+  }
+  if (result.outcome === "rejected") {
+    const { code, message, line, column, file } = result.error;
+    return (await failAnalysis(claim, { code, message, line, column, file }))?.requeue ?? false;
+  }
+  if (result.outcome === "file-changed") {
+    const error = { code: "file-changed", message: "The stored file no longer matches the SHA-256 recorded at upload; it was not analysed." };
+    return (await failAnalysis(claim, error))?.requeue ?? false;
+  }
+  try {
+    const rows = analysisRows(result.report, result.series);
+    const stored = await completeAnalysis(claim, { rows, columnMap: result.columnMap, engineVersion: result.engineVersion });
+    return stored?.requeue ?? false;
+  } catch (error) {
+    if (!(error instanceof ReportNotUnderstood)) throw error;
+    console.error(error);
+    return (await failAnalysis(claim, { code: "internal", message: "The analysis finished but its report could not be stored; the error was logged." }))?.requeue ?? false;
+  }
+}
+
+/** FIFO of run ids with a fixed number running at once. */
+class RunQueue {
+  private readonly pending: string[] = [];
+  private readonly running = new Set<string>();
+  private readonly again = new Set<string>();
+  private waiters: (() => void)[] = [];
+
+  constructor(private readonly limit: number) {}
+
+  enqueue(runId: string): void {
+    if (this.running.has(runId)) this.again.add(runId);
+    else if (!this.pending.includes(runId)) this.pending.push(runId);
+    this.kick();
+  }
+
+  get idle(): boolean {
+    return this.pending.length === 0 && this.running.size === 0;
+  }
+
+  whenIdle(): Promise<void> {
+    if (this.idle) return Promise.resolve();
+    return new Promise((resolve) => this.waiters.push(resolve));
+  }
+
+  private kick(): void {
+    while (this.running.size < this.limit && this.pending.length > 0) {
+      const runId = this.pending.shift();
+      if (!runId) break;
+      this.running.add(runId);
+      processRun(runId)
+        .catch((error: unknown) => {
+          console.error(`Analysis of run ${runId} stopped unexpectedly`, error);
+          return false;
+        })
+        .then((requeue) => {
+          this.running.delete(runId);
+          if (requeue || this.again.delete(runId)) this.pending.push(runId);
+          this.kick();
+          if (this.idle) for (const wake of this.waiters.splice(0)) wake();
+        });
+    }
+  }
+}
+
+function queue(): RunQueue {
+  state.queue ??= new RunQueue(analysisConcurrency());
+  return state.queue;
+}
+
+/**
+ * Once per process: runs left `analysing` by a crash or restart are queued again (or failed when
+ * out of attempts), and every queued run is put on the queue.
+ */
+export function recoverRuns(): Promise<void> {
+  state.recovery ??= recoverInterruptedRuns(maxAnalysisAttempts).then(
+    ({ requeued, failed, queued }) => {
+      if (requeued.length || failed.length) console.log(`Analysis queue: resumed ${requeued.length} interrupted run(s), failed ${failed.length}.`);
+      for (const runId of queued) queue().enqueue(runId);
+    },
+    (error: unknown) => {
+      state.recovery = undefined;
+      throw error;
+    },
+  );
+  return state.recovery;
+}
+
+/** Puts a run on the analysis queue (after start-up recovery has run). */
+export async function enqueueAnalysis(runId: string): Promise<void> {
+  await recoverRuns();
+  queue().enqueue(runId);
+}
+
+/** Resolves when no analysis is queued or running (tests and scripts). */
+export function analysisIdle(): Promise<void> {
+  return state.queue ? state.queue.whenIdle() : Promise.resolve();
+}
+
+/** Stops the workers (tests and shutdown). Queued runs stay queued in the database. */
+export async function stopAnalysis(): Promise<void> {
+  const pool = state.pool;
+  state.pool = undefined;
+  state.queue = undefined;
+  state.recovery = undefined;
+  await pool?.close();
+}
