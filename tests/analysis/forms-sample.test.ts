@@ -43,6 +43,7 @@ describe("every input form reads back as the series", () => {
       const unexpected = got.summary.findings.filter((f) => !(form.name.startsWith("unit row") && f.kind === "skipped-rows"));
       expect(unexpected).toEqual([]);
       expect(got.summary.bytes).toBe(bytes.length);
+      expect(got.summary.path).toBe(form.autoPath);
     });
   }
 });

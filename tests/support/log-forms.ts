@@ -37,6 +37,8 @@ export interface LogForm {
   /** Largest error the written precision allows, per quantity (SI units). */
   tolerance: { t: number; v: number; i: number; temp: number };
   withTemperature: boolean;
+  /** The path readLog's "auto" choice should take: papaparse only for quoting the fast path leaves to it. */
+  autoPath: "fast" | "papaparse";
   /** Physical line of data row k. */
   lineOf: (k: number) => number;
   /** The file's bytes (rendered on demand: a long series makes big files). */
@@ -389,6 +391,7 @@ export function logForms(s: Series): LogForm[] {
       expected: { delimiter: spec.delimiter, decimal: spec.decimal, timeFormat: spec.timeFormat, currentSign: spec.currentSign, headerLine },
       tolerance: spec.tolerance,
       withTemperature: spec.withTemperature,
+      autoPath: spec.quoteAll && spec.decimal === spec.delimiter ? "papaparse" : "fast",
       lineOf: (k) => firstData + k + (every === undefined ? 0 : Math.floor(k / every)),
       render: () => render(spec, s),
     };

@@ -11,7 +11,8 @@ export interface ReadOptions {
   batchSize?: number;
   /**
    * Which parsing path runs. "auto" (default) takes the fast path unless the
-   * data rows hold quote characters. The tests force each path in turn.
+   * data rows quote a delimiter or a quote, or leave a quote open. The tests
+   * force each path in turn.
    */
   parser?: ParserChoice;
 }

@@ -45,7 +45,8 @@ export interface ReadPlan {
   ampUnit: (typeof currentUnits)[number];
   /** "decide": signed current whose direction is found from the mode column or the voltage response. */
   sign: CurrentSign | "decide";
-  quoted: boolean;
+  /** Quoting the fast path leaves to papaparse (see Layout.oddQuoting). */
+  oddQuoting: boolean;
 }
 
 const timeScale: Record<TimeUnit, [number, number]> = { s: [1, 1], ms: [1, 1000], min: [60, 1], h: [3600, 1] };
@@ -219,7 +220,7 @@ export function buildPlan(layout: Layout, rawMap?: ColumnMapInput): ReadPlan {
     voltUnit,
     ampUnit,
     sign,
-    quoted: layout.quoted,
+    oddQuoting: layout.oddQuoting,
   };
 }
 

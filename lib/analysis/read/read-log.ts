@@ -46,7 +46,7 @@ export async function readLog(
     const sink = new RowSink(plan, onBatch, options.batchSize ?? defaultBatchSize);
     const readCells = createStringRowReader(plan, sink);
     const choice = options.parser ?? "auto";
-    const path = choice === "papaparse" || (choice === "auto" && plan.quoted) ? "papaparse" : "fast";
+    const path = choice === "papaparse" || (choice === "auto" && plan.oddQuoting) ? "papaparse" : "fast";
     const parser =
       path === "fast" ? createFastParser(plan, sink, readCells, encoding, newline) : createPapaParser(plan, sink, readCells, encoding, newline);
     for await (const chunk of head.stream) parser.push(chunk);

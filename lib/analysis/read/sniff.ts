@@ -29,8 +29,13 @@ export interface Layout {
   unitRow: SampleRow | null;
   preamble: string[];
   sample: SampleRow[];
-  /** Quote characters in the data rows: the papaparse path handles them best. */
+  /** Quote characters in the data rows. */
   quoted: boolean;
+  /**
+   * Quoting beyond plain "value" cells: a quoted delimiter, a doubled quote, an
+   * unbalanced quote. The papaparse path takes such files.
+   */
+  oddQuoting: boolean;
 }
 
 export function splitCells(line: string, delimiter: Delimiter): string[] {
@@ -128,6 +133,15 @@ function chooseDecimal(sample: readonly SampleRow[]): DecimalMark {
   return comma > dot ? "," : ".";
 }
 
+function hasOddQuoting(line: string, delimiter: Delimiter): boolean {
+  if ((line.match(/"/g)?.length ?? 0) % 2 === 1) return true;
+  for (const m of line.matchAll(/"((?:[^"]|"")*)"/g)) {
+    const inner = m[1] ?? "";
+    if (inner.includes(delimiter) || inner.includes('"')) return true;
+  }
+  return false;
+}
+
 export interface LayoutHints {
   delimiter?: Delimiter;
   decimal?: DecimalMark;
@@ -212,6 +226,7 @@ export function sniffLayout(lines: readonly string[], hints: LayoutHints = {}): 
   let unitRow: SampleRow | null = null;
   const sample: SampleRow[] = [];
   let quoted = false;
+  let oddQuoting = false;
   for (let k = headerIndex + 1; k < rows.length && sample.length < sampleRows; k++) {
     const cells = rows[k]!;
     if (isBlankRow(cells)) continue;
@@ -219,7 +234,11 @@ export function sniffLayout(lines: readonly string[], hints: LayoutHints = {}): 
       unitRow = { line: k + 1, cells };
       continue;
     }
-    if ((looked[k] ?? "").includes('"')) quoted = true;
+    const text = looked[k] ?? "";
+    if (text.includes('"')) {
+      quoted = true;
+      if (hasOddQuoting(text, delimiter)) oddQuoting = true;
+    }
     sample.push({ line: k + 1, cells });
   }
   if (sample.length === 0)
@@ -234,5 +253,6 @@ export function sniffLayout(lines: readonly string[], hints: LayoutHints = {}): 
     preamble,
     sample,
     quoted,
+    oddQuoting,
   };
 }
