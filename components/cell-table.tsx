@@ -4,6 +4,7 @@ import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import type { ReactNode } from "react";
 import { DataTable, Pager, type Column } from "@/components/data-table";
+import { DownloadCsvLink } from "@/components/download-csv-link";
 import { Badge, cellStatusTone } from "@/components/ui/badge";
 import { inputClass } from "@/components/ui/field";
 import { fetchJson } from "@/lib/api/query-client";
@@ -124,6 +125,11 @@ export function CellTable({ batchId, batches = [], caption, empty }: CellTablePr
             </select>
           </>
         )}
+        <DownloadCsvLink
+          href="/api/cells/export"
+          filters={{ q: params.q, status: params.status, batchId: params.batchId, sort: params.sort, dir: params.dir }}
+          label={batchId ? "Download CSV of these cells" : "Download CSV"}
+        />
       </div>
       <DataTable
         caption={caption}

@@ -45,7 +45,9 @@ const matrix: Record<string, Record<string, ActionRow | RouteRow>> = {
   },
   "api/audit/route.ts": { GET: { kind: "route", allowed: ["qa-lead", "admin"], url: "/api/audit" } },
   "api/batches/route.ts": { GET: { kind: "route", allowed: all, url: "/api/batches" } },
+  "api/batches/export/route.ts": { GET: { kind: "route", allowed: all, url: "/api/batches/export" } },
   "api/cells/route.ts": { GET: { kind: "route", allowed: all, url: "/api/cells" } },
+  "api/cells/export/route.ts": { GET: { kind: "route", allowed: all, url: "/api/cells/export" } },
   "api/cell-types/route.ts": { GET: { kind: "route", allowed: all, url: "/api/cell-types" } },
 };
 

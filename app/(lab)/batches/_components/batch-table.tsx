@@ -3,6 +3,7 @@
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import { DataTable, Pager, type Column } from "@/components/data-table";
+import { DownloadCsvLink } from "@/components/download-csv-link";
 import { Badge, dispositionTone } from "@/components/ui/badge";
 import { inputClass } from "@/components/ui/field";
 import { fetchJson } from "@/lib/api/query-client";
@@ -90,6 +91,10 @@ export function BatchTable({ cellTypes }: { cellTypes: { id: string; name: strin
             </option>
           ))}
         </select>
+        <DownloadCsvLink
+          href="/api/batches/export"
+          filters={{ q: params.q, disposition: params.disposition, cellTypeId: params.cellTypeId, sort: params.sort, dir: params.dir }}
+        />
       </div>
       <DataTable
         caption="Batches"
