@@ -15,6 +15,10 @@ export const queryKeys = {
   cellTypes: {
     all: ["cell-types"] as const,
   },
+  runs: {
+    all: ["runs"] as const,
+    status: (runId: string) => ["runs", "status", runId] as const,
+  },
 };
 
 export function toSearch(params: Record<string, string | number | undefined>): string {

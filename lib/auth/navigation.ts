@@ -9,6 +9,7 @@ export interface NavItem {
 /** The app shell's navigation; each entry appears only to roles that may use it. */
 const items: NavItem[] = [
   { href: "/", label: "Start", capability: "registry.read" },
+  { href: "/upload", label: "Upload", capability: "run.upload" },
   { href: "/cells", label: "Cells", capability: "registry.read" },
   { href: "/batches", label: "Batches", capability: "registry.read" },
   { href: "/cell-types", label: "Cell types", capability: "registry.read" },

@@ -55,7 +55,7 @@ describe("the data-directory lock", () => {
     expect(second.stderr).toBe("");
     expect(second.status).toBe(0);
     handle = await openDatabase({ kind: "pglite", dataDir: dir });
-    const result = await handle.db.execute("select n from probe");
+    const result = (await handle.db.execute("select n from probe")) as unknown as { rows: unknown[] };
     expect(result.rows).toEqual([{ n: 42 }]);
   });
 

@@ -1,0 +1,30 @@
+import type { Metadata } from "next";
+import { Forbidden } from "@/components/forbidden";
+import { SafetyCautions } from "@/components/safety-cautions";
+import { PageTitle } from "@/components/ui/panel";
+import { can } from "@/lib/auth/roles";
+import { currentUser } from "@/lib/auth/session";
+import { listBatchOptions } from "@/lib/db/queries/registry";
+import { UploadWorkbench } from "./_components/upload-workbench";
+
+export const metadata: Metadata = { title: "Upload logs" };
+
+export default async function UploadPage() {
+  const user = await currentUser();
+  if (!user || !can(user.role, "run.upload")) return <Forbidden />;
+  const batches = (await listBatchOptions()).map(({ id, lotCode }) => ({ id, lotCode }));
+  return (
+    <>
+      <PageTitle kicker="Bench" title="Upload bench logs" />
+      <div className="grid gap-6 xl:grid-cols-[1fr_20rem]">
+        <UploadWorkbench canCreateCell={can(user.role, "cell.write")} batches={batches} />
+        <div className="space-y-4">
+          <SafetyCautions />
+          <p className="text-sm text-ink-soft">
+            The raw file is stored untouched with its SHA-256. The same file uploaded twice for one cell is refused and points to the run already stored.
+          </p>
+        </div>
+      </div>
+    </>
+  );
+}
