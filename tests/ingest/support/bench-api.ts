@@ -14,7 +14,7 @@ function headersOf(auth: Auth): Headers {
 const origin = "http://localhost:3000";
 
 /** POST /api/v1/runs as curl would send it: multipart with the log in `file`. */
-export function postLog(auth: Auth, fields: Record<string, string>, file: { name: string; text: string | Uint8Array; type?: string }, extraHeaders: Record<string, string> = {}) {
+export function postLog(auth: Auth, fields: Record<string, string>, file: { name: string; text: string | Uint8Array<ArrayBuffer>; type?: string }, extraHeaders: Record<string, string> = {}) {
   const form = new FormData();
   for (const [k, v] of Object.entries(fields)) form.set(k, v);
   form.set("file", new Blob([file.text], { type: file.type ?? "text/csv" }), file.name);
