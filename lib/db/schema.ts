@@ -1,5 +1,6 @@
 import { sql } from "drizzle-orm";
 import {
+  type AnyPgColumn,
   bigint,
   boolean,
   date,
@@ -389,3 +390,26 @@ export const apiToken = pgTable(
 
 export type RunRow = typeof run.$inferSelect;
 export type AnalysisVersionRow = typeof analysisVersion.$inferSelect;
+
+/**
+ * Notes on a run: append-only, like a paper notebook. A correction is a new note that `amends` an
+ * earlier one; the original stays as it was written (a database trigger refuses UPDATE and DELETE).
+ */
+export const runNote = pgTable(
+  "run_note",
+  {
+    id: bigint("id", { mode: "number" }).primaryKey().generatedAlwaysAsIdentity(),
+    runId: uuid("run_id")
+      .notNull()
+      .references(() => run.id, { onDelete: "restrict" }),
+    authorId: text("author_id").references(() => user.id),
+    /** The author's name when the note was written, so the note reads the same after a rename. */
+    authorName: text("author_name").notNull(),
+    at: timestamp("at", { withTimezone: true }).notNull().defaultNow(),
+    text: text("text").notNull(),
+    amends: bigint("amends", { mode: "number" }).references((): AnyPgColumn => runNote.id, { onDelete: "restrict" }),
+  },
+  (t) => [index("run_note_run_at_idx").on(t.runId, t.at), index("run_note_amends_idx").on(t.amends)],
+);
+
+export type RunNoteRow = typeof runNote.$inferSelect;
