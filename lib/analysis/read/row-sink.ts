@@ -80,6 +80,7 @@ export class RowSink {
 
   private readonly timeMul: number;
   private readonly timeDiv: number;
+  private readonly timeIsSeconds: boolean;
   private readonly voltDiv: number;
   private readonly ampDiv: number;
   private readonly tempScale: number;
@@ -97,6 +98,8 @@ export class RowSink {
   private lastDirection = 0;
   private delivered = 0;
   private readonly bad = new Map<number, BadColumn>();
+  /** A required cell was bad: the file will be rejected at the end. */
+  private failing = false;
 
   constructor(plan: ReadPlan, onBatch: (batch: SampleBatch) => void, batchSize: number) {
     this.plan = plan;
@@ -104,6 +107,7 @@ export class RowSink {
     if (this.sign !== null) this.signFactor = this.factorOf(this.sign);
     this.timeMul = plan.timeMul;
     this.timeDiv = plan.timeDiv;
+    this.timeIsSeconds = plan.timeMul === 1 && plan.timeDiv === 1;
     this.voltDiv = plan.voltDiv;
     this.ampDiv = plan.ampDiv;
     // °C = raw * scale + offset. Kelvin: T - 273.15; Fahrenheit: (T - 32) * 5/9.
@@ -131,9 +135,11 @@ export class RowSink {
       this.origin[0] = input[inTimeWhole]!;
       this.origin[1] = input[inTimeFrac]!;
     }
-    row[rowT] = ((input[inTimeWhole]! - this.origin[0]! + (input[inTimeFrac]! - this.origin[1]!)) * this.timeMul) / this.timeDiv;
-    row[rowV] = input[inVoltage]! / this.voltDiv;
-    row[rowI] = input[inCurrent]! / this.ampDiv;
+    const elapsed = input[inTimeWhole]! - this.origin[0]! + (input[inTimeFrac]! - this.origin[1]!);
+    // Skipping a division by 1 changes nothing but the time it takes.
+    row[rowT] = this.timeIsSeconds ? elapsed : (elapsed * this.timeMul) / this.timeDiv;
+    row[rowV] = this.voltDiv === 1 ? input[inVoltage]! : input[inVoltage]! / this.voltDiv;
+    row[rowI] = this.ampDiv === 1 ? input[inCurrent]! : input[inCurrent]! / this.ampDiv;
     row[rowTemp] = input[inTemperature]! * this.tempScale + this.tempOffset;
     row[rowStep] = input[inStep]!;
     row[rowCycle] = input[inCycle]!;
@@ -196,7 +202,7 @@ export class RowSink {
   }
 
   private emit(line: number): void {
-    if (this.bad.size > 0) return; // the file will be rejected: stop feeding the analysis
+    if (this.failing) return; // the file will be rejected: stop feeding the analysis
     const row = this.row;
     const t = row[rowT]!;
     const dt = t - this.previousT;
@@ -229,6 +235,7 @@ export class RowSink {
     }
     entry.count++;
     if (entry.lines.length < listedBadLines) entry.lines.push(line);
+    this.failing = true;
   }
 
   unknownMode(line: number, field: number, text: string): never {
@@ -245,7 +252,7 @@ export class RowSink {
 
   finish(): SinkResult {
     if (this.held !== null) this.release();
-    if (this.bad.size > 0) this.rejectNonNumeric();
+    if (this.failing) this.rejectNonNumeric();
     this.batcher.flush();
     if (this.delivered === 0)
       reject("no-data-rows", `No data rows follow the header on line ${this.plan.headerLine}.`, { line: this.plan.headerLine });
