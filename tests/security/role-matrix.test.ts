@@ -11,7 +11,9 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import type { Role } from "@/lib/auth/roles";
 import { withRequestHeaders } from "@/lib/auth/request-headers";
+import { stopAnalysis } from "@/lib/ingest/runner";
 import { installTestDatabase, removeTestDatabase } from "../support/db";
+import { ingestFixtures, uniqueLog, type IngestFixtures } from "../support/ingest-fixtures";
 import { signedInUser, type SignedInUser } from "../support/users";
 
 vi.mock("next/cache", () => ({ revalidatePath: vi.fn(), revalidateTag: vi.fn(), updateTag: vi.fn() }));
@@ -20,6 +22,19 @@ const all: Role[] = ["technician", "qa-lead", "engineer", "admin"];
 
 type ActionRow = { kind: "action"; allowed: Role[] };
 type RouteRow = { kind: "route"; allowed: Role[] | "public"; url: string; params?: Record<string, string>; body?: () => BodyInit };
+
+// Routes about one run or cell need one to exist: made in beforeAll, read through getters.
+let ingest: IngestFixtures;
+const fixtureRun = {
+  get id() {
+    return ingest.runId;
+  },
+};
+const fixtureCell = {
+  get serial() {
+    return ingest.serial;
+  },
+};
 
 /** file (relative to app/) → export name → expectation */
 const matrix: Record<string, Record<string, ActionRow | RouteRow>> = {
@@ -35,6 +50,18 @@ const matrix: Record<string, Record<string, ActionRow | RouteRow>> = {
   "(lab)/cells/actions.ts": {
     createCellAction: { kind: "action", allowed: ["technician", "qa-lead", "engineer", "admin"] },
   },
+  "(lab)/upload/actions.ts": {
+    previewUploadAction: { kind: "action", allowed: ["technician", "engineer", "admin"] },
+    analyseRunAction: { kind: "action", allowed: ["technician", "engineer", "admin"] },
+    saveColumnMapAction: { kind: "action", allowed: ["technician", "engineer", "admin"] },
+  },
+  "(lab)/runs/[runId]/actions.ts": {
+    reanalyseRunAction: { kind: "action", allowed: ["technician", "engineer", "admin"] },
+  },
+  "(lab)/settings/actions.ts": {
+    createApiTokenAction: { kind: "action", allowed: all },
+    revokeApiTokenAction: { kind: "action", allowed: all },
+  },
   "(admin)/admin/users/actions.ts": {
     createUserAction: { kind: "action", allowed: ["admin"] },
     setUserRoleAction: { kind: "action", allowed: ["admin"] },
@@ -49,6 +76,38 @@ const matrix: Record<string, Record<string, ActionRow | RouteRow>> = {
   "api/cells/route.ts": { GET: { kind: "route", allowed: all, url: "/api/cells" } },
   "api/cells/export/route.ts": { GET: { kind: "route", allowed: all, url: "/api/cells/export" } },
   "api/cell-types/route.ts": { GET: { kind: "route", allowed: all, url: "/api/cell-types" } },
+  "api/uploadthing/route.ts": {
+    // The SDK's browser client reads the route config before signing in matters.
+    GET: { kind: "route", allowed: "public", url: "/api/uploadthing" },
+    POST: {
+      kind: "route",
+      allowed: ["technician", "engineer", "admin"],
+      url: "/api/uploadthing?actionType=upload&slug=benchLog",
+      body: () =>
+        JSON.stringify({
+          input: { cellSerial: ingest.serial, purpose: "other" },
+          files: [{ name: "log.csv", size: 100, type: "text/csv", lastModified: 0 }],
+        }),
+    },
+  },
+  "api/v1/runs/route.ts": {
+    POST: {
+      kind: "route",
+      allowed: ["technician", "engineer", "admin"],
+      url: "/api/v1/runs",
+      body: () => {
+        const form = new FormData();
+        form.set("cellSerial", ingest.serial);
+        form.set("purpose", "other");
+        form.set("file", new Blob([uniqueLog()], { type: "text/csv" }), "log.csv");
+        return form;
+      },
+    },
+  },
+  "api/v1/runs/[id]/route.ts": { GET: { kind: "route", allowed: all, url: "/api/v1/runs/fixture", params: fixtureRun } },
+  "api/v1/cells/[serial]/runs/route.ts": { GET: { kind: "route", allowed: all, url: "/api/v1/cells/fixture/runs", params: fixtureCell } },
+  "api/runs/[id]/route.ts": { GET: { kind: "route", allowed: all, url: "/api/runs/fixture", params: fixtureRun } },
+  "api/runs/[id]/raw/route.ts": { GET: { kind: "route", allowed: all, url: "/api/runs/fixture/raw", params: fixtureRun } },
 };
 
 const appDir = path.join(process.cwd(), "app");
@@ -86,8 +145,14 @@ beforeAll(async () => {
     engineer: await signedInUser("engineer"),
     admin: await signedInUser("admin"),
   };
+  ingest = await ingestFixtures({ id: users.admin.id, name: "Admin" });
 });
 afterAll(removeTestDatabase);
+// Registered after the database teardown so it runs before it: the workers stop first.
+afterAll(async () => {
+  await stopAnalysis();
+  await ingest.service.close();
+});
 
 describe("role matrix", () => {
   it("has a row for every server action and route handler, and no stale rows", async () => {
