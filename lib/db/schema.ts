@@ -15,6 +15,7 @@ import {
   uniqueIndex,
   uuid,
 } from "drizzle-orm/pg-core";
+import { flagRuleKinds, flagStates } from "../flags/vocabulary";
 import { runPurposes, runStatuses } from "../validations/runs";
 
 /* ------------------------------------------------------------------------------------------
@@ -413,3 +414,142 @@ export const runNote = pgTable(
 );
 
 export type RunNoteRow = typeof runNote.$inferSelect;
+
+/* ------------------------------------------------------------------------------------------
+ * Flags, alerts and lot decisions.
+ * ---------------------------------------------------------------------------------------- */
+
+export const flagRuleKind = pgEnum("flag_rule_kind", flagRuleKinds);
+export const flagState = pgEnum("flag_state", flagStates);
+export const outboxStatus = pgEnum("outbox_status", ["pending", "sent", "failed"]);
+
+/**
+ * A rule engineers configure. `bound` is in the unit the kind names (percent for state of health,
+ * coulombic efficiency and resistance rise; the test level α for the fade outlier); a null bound on
+ * the state-of-health rule means the lab's end-of-life threshold setting.
+ */
+export const flagRule = pgTable("flag_rule", {
+  id: uuid("id").primaryKey().defaultRandom(),
+  kind: flagRuleKind("kind").notNull(),
+  bound: doublePrecision("bound"),
+  enabled: boolean("enabled").notNull().default(true),
+  note: text("note").notNull().default(""),
+  createdBy: text("created_by").references(() => user.id, { onDelete: "set null" }),
+  createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+  updatedBy: text("updated_by").references(() => user.id, { onDelete: "set null" }),
+  updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+});
+
+/** A flag on one cell: opened by a rule on some evidence (an analysis), or raised by hand with a reason. */
+export const flag = pgTable(
+  "flag",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    cellId: uuid("cell_id")
+      .notNull()
+      .references(() => cell.id, { onDelete: "restrict" }),
+    /** Null for a flag raised by hand. */
+    ruleId: uuid("rule_id").references(() => flagRule.id, { onDelete: "restrict" }),
+    /** The rule's kind when it opened, or "by hand". */
+    kind: text("kind").notNull(),
+    state: flagState("state").notNull().default("open"),
+    summary: text("summary").notNull(),
+    value: doublePrecision("value"),
+    bound: doublePrecision("bound"),
+    unit: text("unit"),
+    /** The analysis whose numbers opened the flag. */
+    evidenceAnalysisId: uuid("evidence_analysis_id").references(() => analysisVersion.id, { onDelete: "set null" }),
+    detail: jsonb("detail"),
+    raisedBy: text("raised_by").references(() => user.id, { onDelete: "set null" }),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    index("flag_cell_idx").on(t.cellId),
+    index("flag_state_created_idx").on(t.state, t.createdAt),
+    // A rule flags a cell once per piece of evidence: a cleared flag stays cleared for the analysis it was raised on.
+    uniqueIndex("flag_rule_cell_evidence_unique").on(t.ruleId, t.cellId, t.evidenceAnalysisId).where(sql`${t.ruleId} is not null`),
+    // At most one unclosed flag per rule and cell, even when two evaluations race.
+    uniqueIndex("flag_rule_cell_unclosed_unique")
+      .on(t.ruleId, t.cellId)
+      .where(sql`${t.ruleId} is not null and ${t.state} in ('open', 'acknowledged', 'retest requested')`),
+  ],
+);
+
+/** Every step of a flag: who, when, why. Append-only (a database trigger refuses changes). */
+export const flagTransition = pgTable(
+  "flag_transition",
+  {
+    id: bigint("id", { mode: "number" }).primaryKey().generatedAlwaysAsIdentity(),
+    flagId: uuid("flag_id")
+      .notNull()
+      .references(() => flag.id, { onDelete: "restrict" }),
+    /** Null for the step that opened the flag. */
+    fromState: flagState("from_state"),
+    toState: flagState("to_state").notNull(),
+    reason: text("reason").notNull(),
+    /** Null when the app itself acted (a rule opened the flag). */
+    actorId: text("actor_id").references(() => user.id, { onDelete: "set null" }),
+    actorName: text("actor_name").notNull(),
+    at: timestamp("at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("flag_transition_flag_idx").on(t.flagId, t.at)],
+);
+
+/** The lab's settings for fade and alerts: a single row (id 1); defaults apply until it is saved. */
+export const labSettings = pgTable("lab_settings", {
+  id: integer("id").primaryKey().default(1),
+  eolThresholdPct: doublePrecision("eol_threshold_pct").notNull().default(80),
+  digestEnabled: boolean("digest_enabled").notNull().default(false),
+  /** Hour of the day (server clock, 0–23) after which the daily digest goes out. */
+  digestHour: integer("digest_hour").notNull().default(7),
+  /** The server-clock date of the last digest sent, so one goes out per day. */
+  lastDigestOn: date("last_digest_on", { mode: "string" }),
+  updatedBy: text("updated_by").references(() => user.id, { onDelete: "set null" }),
+  updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+});
+
+/** Mail waiting to go out, written in the transaction of the event that causes it; one row per recipient. */
+export const outboxMessage = pgTable(
+  "outbox_message",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    kind: text("kind").notNull(),
+    toAddress: text("to_address").notNull(),
+    subject: text("subject").notNull(),
+    textBody: text("text_body").notNull(),
+    htmlBody: text("html_body"),
+    flagId: uuid("flag_id").references(() => flag.id, { onDelete: "set null" }),
+    status: outboxStatus("status").notNull().default("pending"),
+    attempts: integer("attempts").notNull().default(0),
+    nextAttemptAt: timestamp("next_attempt_at", { withTimezone: true }).notNull().defaultNow(),
+    lastError: text("last_error"),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    sentAt: timestamp("sent_at", { withTimezone: true }),
+  },
+  (t) => [index("outbox_status_next_idx").on(t.status, t.nextAttemptAt)],
+);
+
+/** A QA lead's decision on a lot, with the figures in view when it was made. Append-only. */
+export const lotDecision = pgTable(
+  "lot_decision",
+  {
+    id: bigint("id", { mode: "number" }).primaryKey().generatedAlwaysAsIdentity(),
+    batchId: uuid("batch_id")
+      .notNull()
+      .references(() => batch.id, { onDelete: "restrict" }),
+    fromDisposition: batchDisposition("from_disposition").notNull(),
+    disposition: batchDisposition("disposition").notNull(),
+    reason: text("reason").notNull(),
+    /** The capability figures computed on the server at the moment of the decision. */
+    figures: jsonb("figures"),
+    decidedBy: text("decided_by").references(() => user.id, { onDelete: "set null" }),
+    decidedByName: text("decided_by_name").notNull(),
+    decidedAt: timestamp("decided_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("lot_decision_batch_idx").on(t.batchId, t.decidedAt)],
+);
+
+export type FlagRuleRow = typeof flagRule.$inferSelect;
+export type FlagRow = typeof flag.$inferSelect;
+export type OutboxMessageRow = typeof outboxMessage.$inferSelect;
