@@ -16,7 +16,9 @@ import type { StringRowReader } from "./string-rows";
 
 // Module-local copies of imported bindings: a CommonJS build (tsx: the CLI and the bench) reaches
 // imports through getters, which costs more than the parsing itself in per-row code.
-const { cursor, fieldEmpty, fieldOk, parsed, parseHmsField, quickNumberField, parseTimestampField, skipField, textFieldBounds } = fields;
+const { cursor: cur, fieldEmpty, fieldOk, parsed: out, parseHmsField: parseHms, quickNumberField: parseNumber } = fields;
+const { parseTimestampField: parseTimestamp, skipField: skip, textFieldBounds: textBounds } = fields;
+const lineLimit = maxLineBytes;
 const { inCurrent, inCycle, inDirection, inRecord, inStep, inTemperature, inTimeFrac, inTimeWhole, inVoltage } = slots;
 
 // Roles in this order: required numbers first, so `role <= roleCurrent` means required.
@@ -39,14 +41,6 @@ export interface LineParser {
 
 /** `newline` is 10 for LF and CRLF files, 13 for the rare file with lone CR line ends. */
 export function createFastParser(plan: ReadPlan, sink: RowSink, readCells: StringRowReader, encoding: string, newline: number): LineParser {
-  const cur = cursor;
-  const out = parsed;
-  const parseNumber = quickNumberField;
-  const parseHms = parseHmsField;
-  const parseTimestamp = parseTimestampField;
-  const skip = skipField;
-  const textBounds = textFieldBounds;
-  const lineLimit = maxLineBytes;
   const f = plan.fields;
   const lastField = Math.max(f.time, f.voltage, f.current, f.temperature, f.step, f.cycle, f.record, f.mode);
   const roles = new Uint8Array(lastField + 1);
