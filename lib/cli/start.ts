@@ -10,6 +10,7 @@ import fs from "node:fs";
 import path from "node:path";
 import { closeDatabase, installDatabaseHandle, openDatabase, type DatabaseTarget } from "@/lib/db/client";
 import { seedDemo } from "@/lib/db/seed";
+import { uploadEnvProblems, UploadServiceNotConfigured } from "@/lib/uploads/env";
 import { startLocalServices, type LocalServices } from "./local-services";
 
 const root = process.cwd();
@@ -65,6 +66,12 @@ async function main(): Promise<void> {
   const services: LocalServices = await startLocalServices(dataRoot, env);
   // Values set explicitly in the environment (e.g. the hosted upload service) win over local defaults.
   for (const [key, value] of Object.entries(services.env)) env[key] ??= value;
+  // Half-configured upload settings would send lab files to the hosted service: refuse to start.
+  const uploadProblems = uploadEnvProblems(env);
+  if (uploadProblems.length > 0) {
+    await services.close();
+    throw new UploadServiceNotConfigured(uploadProblems);
+  }
 
   // Migrate and seed before the server starts: a PGlite directory may have only one process at a time.
   const target: DatabaseTarget = env.DATABASE_URL ? { kind: "postgres", url: env.DATABASE_URL } : { kind: "pglite", dataDir: String(env.KNEEPOINT_DATA_DIR) };
