@@ -18,6 +18,19 @@ const config = [
       "@typescript-eslint/no-unused-vars": ["error", { argsIgnorePattern: "^_", varsIgnorePattern: "^_" }],
       "drizzle/enforce-delete-with-where": ["error", { drizzleObjectName: ["db", "tx"] }],
       "drizzle/enforce-update-with-where": ["error", { drizzleObjectName: ["db", "tx"] }],
+      // Serials, notes and file names are shown as text: React escapes them unless told not to.
+      "react/no-danger": "error",
+      "no-restricted-syntax": [
+        "error",
+        {
+          selector: "AssignmentExpression > MemberExpression.left[property.name=/^(innerHTML|outerHTML)$/]",
+          message: "Set textContent instead: markup from records is shown as text.",
+        },
+        {
+          selector: "CallExpression[callee.property.name=/^(insertAdjacentHTML|write|writeln)$/][callee.object.name=/^(document|.*[Ee]lement|el|node)$/]",
+          message: "Build DOM nodes with text instead: markup from records is shown as text.",
+        },
+      ],
     },
   },
   {

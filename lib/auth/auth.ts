@@ -7,13 +7,15 @@ import { getDb, type Database } from "@/lib/db/client";
 import * as schema from "@/lib/db/schema";
 import { serverEnv } from "@/lib/env";
 
-function trustedOrigins(): string[] {
+/** The browser origins that may send the app state-changing requests (sign-in and every mutation). */
+export function trustedOrigins(): string[] {
   const env = serverEnv();
   const origins = new Set<string>([env.BETTER_AUTH_URL]);
   // The same local server is reached as localhost and as 127.0.0.1; both are the lab's own.
   const url = new URL(env.BETTER_AUTH_URL);
-  if (url.hostname === "localhost") origins.add(`${url.protocol}//127.0.0.1:${url.port}`);
-  if (url.hostname === "127.0.0.1") origins.add(`${url.protocol}//localhost:${url.port}`);
+  const port = url.port ? `:${url.port}` : "";
+  if (url.hostname === "localhost") origins.add(`${url.protocol}//127.0.0.1${port}`);
+  if (url.hostname === "127.0.0.1") origins.add(`${url.protocol}//localhost${port}`);
   for (const extra of env.KNEEPOINT_TRUSTED_ORIGINS.split(",")) if (extra.trim()) origins.add(extra.trim());
   return [...origins];
 }

@@ -3,6 +3,7 @@ import { type z } from "zod";
 import { AppError, errorResponse } from "@/lib/http/errors";
 import { fieldErrorsOf } from "./action";
 import { userFromBearer } from "./api-token";
+import { assertSameOriginMutation } from "./origin";
 import { can, type Capability } from "./roles";
 import { sessionFromHeaders, type SessionUser } from "./session";
 
@@ -27,6 +28,8 @@ async function requestUser(request: Request, options: RouteOptions): Promise<Ses
     const tokenUser = await userFromBearer(request.headers);
     if (tokenUser) return tokenUser;
   }
+  // Only the cookie can be forged by another site's page: refuse its cross-origin mutations.
+  assertSameOriginMutation(request);
   return sessionFromHeaders(request.headers);
 }
 
