@@ -3,7 +3,7 @@
  * upload preview.
  */
 import { describe, expect, it } from "vitest";
-import { previewLog, splitHeader } from "@/lib/analysis/read";
+import { previewLog, readLog, splitHeader } from "@/lib/analysis/read";
 import { AnalysisRejected, columnMapSchema, type ColumnMap } from "@/lib/analysis/types";
 import { readAll, sampleSeries, logForms } from "../support/log-forms";
 
@@ -170,6 +170,28 @@ describe("data-quality findings", () => {
     expect(got.summary.findings).toHaveLength(5);
     expect(got.summary.findings.every((f) => f.caution === "" && f.severity !== "danger")).toBe(true);
     expect(got.summary.rows).toBe(60);
+  });
+});
+
+describe("streaming", () => {
+  it("delivers full batches of batchSize in file order, from one-byte chunks too", async () => {
+    const text = csv("Time (s),Voltage (V),Current (A)", 2500, ramp);
+    const sizes: number[] = [];
+    async function* oneByte() {
+      for (let k = 0; k < text.length; k++) yield text.subarray(k, k + 1);
+    }
+    const lines: number[] = [];
+    const summary = await readLog(
+      oneByte(),
+      (b) => {
+        sizes.push(b.length);
+        lines.push(b.line[0]!, b.line[b.length - 1]!);
+      },
+      { batchSize: 1000 },
+    );
+    expect(sizes).toEqual([1000, 1000, 500]);
+    expect(lines).toEqual([2, 1001, 1002, 2001, 2002, 2501]);
+    expect(summary).toMatchObject({ rows: 2500, bytes: text.length, path: "fast" });
   });
 });
 

@@ -6,7 +6,7 @@ import { existsSync } from "node:fs";
 import { join } from "node:path";
 import { readLog } from "@/lib/analysis/read";
 
-export type RunKind = "read + analyse" | "reader alone";
+export type RunKind = "read + analyse" | "reader alone" | "reader, papaparse path";
 
 export interface RunResult {
   rows: number;
@@ -34,19 +34,25 @@ function readPartOf(output: unknown): { rows: number; parser: string } {
   };
 }
 
-const readerAlone: Run = async (source) => {
-  // A consumer that touches every value, so no work can be skipped.
-  let checksum = 0;
-  const summary = await readLog(source, (b) => {
-    for (let k = 0; k < b.length; k++) checksum += b.v[k]! + b.i[k]!;
-  });
-  if (Number.isNaN(checksum)) throw new Error("NaN in the batches");
-  return { rows: summary.rows, what: "reader alone", path: summary.path };
-};
+function readerAlone(what: RunKind, parser: "auto" | "papaparse"): Run {
+  return async (source) => {
+    // A consumer that touches every value, so no work can be skipped.
+    let checksum = 0;
+    const summary = await readLog(
+      source,
+      (b) => {
+        for (let k = 0; k < b.length; k++) checksum += b.v[k]! + b.i[k]!;
+      },
+      { parser },
+    );
+    if (Number.isNaN(checksum)) throw new Error("NaN in the batches");
+    return { rows: summary.rows, what, path: summary.path };
+  };
+}
 
 /** Loads what is to be timed (module loading is not part of the measurement). */
 export async function prepareRun(kind: RunKind): Promise<Run | null> {
-  if (kind === "reader alone") return readerAlone;
+  if (kind !== "read + analyse") return readerAlone(kind, kind === "reader alone" ? "auto" : "papaparse");
   const analyzeLog = await findAnalyzeLog();
   if (analyzeLog === null) return null;
   return async (source) => {
