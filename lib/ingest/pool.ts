@@ -127,6 +127,8 @@ export class WorkerPool {
       if (!this.slots.delete(slot)) return;
       slot.task?.reject(new WorkerCrashed(reason));
       slot.task = null;
+      // A worker that cannot even start would be replaced forever: let the next job fail instead.
+      if (!slot.ready) this.queue.shift()?.reject(new WorkerCrashed(`The analysis worker could not start: ${reason}`));
       if (!this.closed) this.dispatch();
     };
     worker.on("error", (error) => retire(`The analysis worker failed: ${error.message}`));
