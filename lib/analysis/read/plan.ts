@@ -119,7 +119,8 @@ export function buildPlan(layout: Layout, rawMap?: ColumnMapInput): ReadPlan {
     return claimed ? undefined : c;
   };
 
-  const headerList = layout.header.map((h, k) => `${k + 1} "${h}"`).join(", ");
+  const listed = layout.header.slice(0, 20).map((h, k) => `${k + 1} "${h}"`);
+  const headerList = listed.join(", ") + (layout.header.length > listed.length ? `, and ${layout.header.length - listed.length} more` : "");
   const required = (role: "time" | "voltage" | "current", code: "no-time-column" | "no-voltage-column" | "no-current-column") => {
     const ref = refFor(role);
     if (ref === undefined)
