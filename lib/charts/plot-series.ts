@@ -5,7 +5,7 @@
  * rather than failing the page.
  */
 import { z } from "zod";
-import { stepKinds, type StepKind } from "@/lib/analysis/types";
+import { stepKinds } from "@/lib/analysis/types";
 
 const numbers = z.array(z.number().nullable());
 const xy = z.object({ x: numbers, y: numbers });
@@ -27,39 +27,11 @@ const icaCurves = z.array(
   }),
 );
 
-export interface XY {
-  x: (number | null)[];
-  y: (number | null)[];
-}
-
-export interface StepEdge {
-  time_s: number;
-  step: number;
-  kind: StepKind;
-}
-
-export interface SwitchPoint {
-  time_s: number;
-  voltage_V: number | null;
-  cycle: number;
-}
-
-export interface CapacityCurve {
-  step: number;
-  cycle: number;
-  kind: StepKind;
-  capacity_mAh: (number | null)[];
-  voltage_V: (number | null)[];
-}
-
-export interface IcaCurve {
-  step: number;
-  cycle: number;
-  kind: StepKind;
-  c_rate: number | null;
-  voltage_V: (number | null)[];
-  dQdV_mAh_per_V: (number | null)[];
-}
+export type XY = z.output<typeof xy>;
+export type StepEdge = z.output<typeof edges>[number];
+export type SwitchPoint = z.output<typeof switches>[number];
+export type CapacityCurve = z.output<typeof capacityCurves>[number];
+export type IcaCurve = z.output<typeof icaCurves>[number];
 
 export interface PlotView {
   voltage: XY | null;
