@@ -37,6 +37,7 @@ export interface ResistanceResult {
   delay_s?: number;
 }
 
+/** A completed level of current (between two sharp steps). */
 interface Level {
   startT: number;
   startLine: number;
@@ -44,14 +45,7 @@ interface Level {
   sumI: number;
   lastT: number;
   lastV: number;
-  /** First samples of the level, for the step-edge estimate. */
-  firstV: number;
-  firstT: number;
-  headSum: number;
-  headCount: number;
 }
-
-const newLevel = (): Level => ({ startT: 0, startLine: 0, count: 0, sumI: 0, lastT: 0, lastV: 0, firstV: 0, firstT: 0, headSum: 0, headCount: 0 });
 
 const maxEdgeResults = 500;
 const maxIecResults = 1000;
@@ -60,8 +54,19 @@ export class ResistanceFinder {
   readonly iec: ResistanceResult[] = [];
   readonly edges: ResistanceResult[] = [];
   edgeCount = 0;
-  private cur = newLevel();
-  private prev = newLevel();
+  // The level being read, kept in flat fields: this runs for every sample.
+  private curStartT = 0;
+  private curStartLine = 0;
+  private curCount = 0;
+  private curSumI = 0;
+  private curLastT = 0;
+  private curLastV = 0;
+  private curFirstV = 0;
+  private curFirstT = 0;
+  private curHeadSum = 0;
+  private curHeadCount = 0;
+  private readonly prev: Level = { startT: 0, startLine: 0, count: 0, sumI: 0, lastT: 0, lastV: 0 };
+  private readonly second: Level = { startT: 0, startLine: 0, count: 0, sumI: 0, lastT: 0, lastV: 0 };
   private havePrev = false;
   private lastI = NaN;
   private maxAbsI = 0;
@@ -76,86 +81,101 @@ export class ResistanceFinder {
 
   onSample(r: SampleRing, n: number, th: Thresholds): void {
     const j = n & MASK;
-    const t = r.t[j] ?? 0;
-    const v = r.v[j] ?? 0;
     const i = r.i[j] ?? 0;
-    const line = r.line[j] ?? 0;
     const ai = i < 0 ? -i : i;
     if (ai > this.maxAbsI) this.maxAbsI = ai;
-    const it = this.oneC === this.oneC ? this.oneC : this.maxAbsI;
-    const jump = Math.max(10 * th.sigmaI, 0.1 * it, th.floorCurrent);
     const last = this.lastI;
     this.lastI = i;
-    if (last === last && Math.abs(i - last) > jump && this.cur.count > 0) {
-      this.closeLevel(t, line);
+    if (last === last && this.curCount > 0) {
+      const d = i > last ? i - last : last - i;
+      const it = this.oneC === this.oneC ? this.oneC : this.maxAbsI;
+      if (d > 10 * th.sigmaI && d > 0.1 * it && d > th.floorCurrent) this.closeLevel(r, n);
     }
-    const c = this.cur;
-    if (c.count === 0) {
-      c.startT = t;
-      c.startLine = line;
-      c.firstV = v;
-      c.firstT = t;
+    const t = r.t[j] ?? 0;
+    const v = r.v[j] ?? 0;
+    if (this.curCount === 0) {
+      this.curStartT = t;
+      this.curStartLine = r.line[j] ?? 0;
+      this.curFirstV = v;
+      this.curFirstT = t;
     }
-    c.count += 1;
-    c.sumI += i;
-    c.lastT = t;
-    c.lastV = v;
-    if (c.headCount < 3) {
-      c.headSum += i;
-      c.headCount += 1;
+    this.curCount += 1;
+    this.curSumI += i;
+    this.curLastT = t;
+    this.curLastV = v;
+    if (this.curHeadCount < 3) {
+      this.curHeadSum += i;
+      this.curHeadCount += 1;
+      if (this.pendingEdge && this.curHeadCount === 3) this.emitEdge();
     }
-    if (this.pendingEdge && c.headCount === 3) this.emitEdge();
   }
 
   finish(): void {
     if (this.pendingEdge) this.emitEdge();
-    const c = this.cur;
-    if (c.count > 0) this.checkIec(c, c.lastT + (c.count > 1 ? (c.lastT - c.startT) / (c.count - 1) : 0));
+    if (this.curCount > 0) {
+      const c = this.currentAsLevel();
+      this.checkIec(c, c.lastT + (c.count > 1 ? (c.lastT - c.startT) / (c.count - 1) : 0));
+    }
   }
 
-  private closeLevel(t: number, line: number): void {
+  private currentAsLevel(): Level {
+    const c = this.second;
+    c.startT = this.curStartT;
+    c.startLine = this.curStartLine;
+    c.count = this.curCount;
+    c.sumI = this.curSumI;
+    c.lastT = this.curLastT;
+    c.lastV = this.curLastV;
+    return c;
+  }
+
+  private closeLevel(r: SampleRing, n: number): void {
     if (this.pendingEdge) this.emitEdge();
-    const done = this.cur;
+    const t = r.t[n & MASK] ?? 0;
+    const done = this.currentAsLevel();
     this.checkIec(done, t);
     if (done.count >= 3 && t - done.lastT <= 5) {
       this.pendingEdge = true;
       this.pendingBeforeV = done.lastV;
       this.pendingBeforeT = done.lastT;
       this.pendingBeforeI = done.sumI / done.count;
-      this.pendingLine = line;
+      this.pendingLine = r.line[n & MASK] ?? 0;
     }
-    // Swap the level records without allocating.
-    const spare = this.prev;
-    this.prev = done;
+    const p = this.prev;
+    p.startT = done.startT;
+    p.startLine = done.startLine;
+    p.count = done.count;
+    p.sumI = done.sumI;
+    p.lastT = done.lastT;
+    p.lastV = done.lastV;
     this.havePrev = true;
-    spare.count = 0;
-    spare.sumI = 0;
-    spare.headSum = 0;
-    spare.headCount = 0;
-    this.cur = spare;
+    this.curCount = 0;
+    this.curSumI = 0;
+    this.curHeadSum = 0;
+    this.curHeadCount = 0;
   }
 
   private emitEdge(): void {
     this.pendingEdge = false;
-    const c = this.cur;
-    if (c.headCount === 0) return;
-    const iAfter = c.headSum / c.headCount;
+    if (this.curHeadCount === 0) return;
+    const iAfter = this.curHeadSum / this.curHeadCount;
     const dI = this.pendingBeforeI - iAfter;
-    const r = (this.pendingBeforeV - c.firstV) / dI;
+    const res = (this.pendingBeforeV - this.curFirstV) / dI;
     this.edgeCount += 1;
-    if (!(r > 0) || this.edges.length >= maxEdgeResults) return;
+    if (!(res > 0) || this.edges.length >= maxEdgeResults) return;
+    const mid = 0.5 * (this.pendingBeforeT + this.curFirstT);
     this.edges.push({
       method: "step-edge",
-      time_s: 0.5 * (this.pendingBeforeT + c.firstT),
-      resistance_mOhm: r * 1000,
+      time_s: mid,
+      resistance_mOhm: res * 1000,
       i1_A: this.pendingBeforeI,
       i2_A: iAfter,
       u1_V: this.pendingBeforeV,
-      u2_V: c.firstV,
+      u2_V: this.curFirstV,
       u1_time_s: this.pendingBeforeT,
-      u2_time_s: c.firstT,
+      u2_time_s: this.curFirstT,
       line: this.pendingLine,
-      delay_s: c.firstT - 0.5 * (this.pendingBeforeT + c.firstT),
+      delay_s: this.curFirstT - mid,
     });
   }
 

@@ -128,7 +128,7 @@ export class RunCollector {
   private idx = new Float64Array(runCurveCapacity);
   private n = 0;
   private stride = 1;
-  private counter = 0;
+  private countdown = 0;
   private readonly hist = new Float64Array(histBins);
   private histLo = histBins;
   private histHi = -1;
@@ -145,7 +145,8 @@ export class RunCollector {
     this.fed = k;
     const q = r.qCum[j] ?? 0;
     const v = r.v[j] ?? 0;
-    if (this.counter++ % this.stride === 0) {
+    if (--this.countdown <= 0) {
+      this.countdown = this.stride;
       if (this.n === runCurveCapacity) this.halve();
       this.q[this.n] = q;
       this.v[this.n] = v;
@@ -218,7 +219,7 @@ export class RunCollector {
     this.runStart = start;
     this.n = 0;
     this.stride = 1;
-    this.counter = 0;
+    this.countdown = 0;
     this.switchAt = -1;
     if (this.histHi >= this.histLo) this.hist.fill(0, this.histLo, this.histHi + 1);
     this.histLo = histBins;

@@ -126,7 +126,8 @@ export class Segmenter {
       }
     }
     if (this.sharp(n, th)) return;
-    if (this.regimeChange(n, th)) return;
+    // Small regime changes are looked for on every other sample; the split search places them exactly.
+    if ((n & 1) === 0 && this.regimeChange(n, th)) return;
     if (this.switchAt < 0) {
       const runMean = ((r.si[n & MASK] ?? 0) - this.runBase.si) / (n - this.runStart + 1);
       if (runMean > th.restCurrent) {
