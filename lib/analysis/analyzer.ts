@@ -173,7 +173,8 @@ export class StreamingAnalyzer {
         th.sigmaI = this.noiseI.sigma();
         th.sigmaV = this.noiseV.sigma();
         th.floorCurrent = 0.002 * (this.oneC === this.oneC ? this.oneC : this.maxAbsI);
-        th.restCurrent = Math.max(th.sigmaI, th.floorCurrent);
+        // 1 µA keeps a perfectly clean all-rest log a rest before any current has been seen.
+        th.restCurrent = Math.max(th.sigmaI, th.floorCurrent, 1e-6);
       }
 
       if (n > 0) this.integrate(n);

@@ -54,6 +54,13 @@ export interface AnalysedCycle {
   cycle: number;
   start_s: number;
   end_s: number;
+  duration_s: number;
+  start_voltage_V: number;
+  end_voltage_V: number;
+  /** Time-weighted over the cycle's steps. */
+  mean_voltage_V: number;
+  /** Net charge over the cycle's duration (positive when it charged more than it discharged). */
+  mean_current_A: number;
   first_step: number;
   last_step: number;
   charged_mAh: number;
@@ -130,10 +137,18 @@ function summarise(g: AnalysedStep[], cycle: number, o: CycleOptions): AnalysedC
     };
   }
   const hasBoth = charge !== null && discharge !== null && charged > 0;
+  const duration = last.end_s - first.start_s;
+  const weighted = sum((s) => s.mean_voltage_V * s.duration_s);
+  const timed = sum((s) => s.duration_s);
   return {
     cycle,
     start_s: first.start_s,
     end_s: last.end_s,
+    duration_s: duration,
+    start_voltage_V: first.start_voltage_V,
+    end_voltage_V: last.end_voltage_V,
+    mean_voltage_V: timed > 0 ? weighted / timed : first.mean_voltage_V,
+    mean_current_A: duration > 0 ? ((charged - discharged) * 3.6) / duration : 0,
     first_step: first.step,
     last_step: last.step,
     charged_mAh: charged,

@@ -141,13 +141,7 @@ export class ResistanceFinder {
       this.pendingBeforeI = done.sumI / done.count;
       this.pendingLine = r.line[n & MASK] ?? 0;
     }
-    const p = this.prev;
-    p.startT = done.startT;
-    p.startLine = done.startLine;
-    p.count = done.count;
-    p.sumI = done.sumI;
-    p.lastT = done.lastT;
-    p.lastV = done.lastV;
+    Object.assign(this.prev, done);
     this.havePrev = true;
     this.curCount = 0;
     this.curSumI = 0;
