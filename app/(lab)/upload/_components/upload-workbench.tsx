@@ -170,11 +170,13 @@ export function UploadWorkbench({ canCreateCell, batches }: { canCreateCell: boo
               autoComplete="off"
               required
               hint={
-                serial.length >= 2 && suggestions.isSuccess && !knownSerial
-                  ? canCreateCell
-                    ? "New serial: the cell will be registered with this upload."
-                    : "This serial is not registered and your role cannot register cells."
-                  : "Start typing to pick a registered cell."
+                serial.length < 2 || !suggestions.isSuccess
+                  ? "Start typing to pick a registered cell."
+                  : knownSerial
+                    ? "A registered cell: the run will be filed under it."
+                    : canCreateCell
+                      ? "New serial: the cell will be registered with this upload."
+                      : "This serial is not registered and your role cannot register cells."
               }
             />
             <datalist id={`${formId}-serials`}>
