@@ -4,7 +4,21 @@
  * print and for readers who do not tell the colours apart.
  */
 
-export type ColorToken = "ink" | "ink-soft" | "copper" | "copper-dark" | "charge" | "discharge" | "rest" | "danger" | "warn" | "ok" | "rule" | "rule-strong";
+export type ColorToken =
+  | "ink"
+  | "ink-soft"
+  | "sheet"
+  | "paper"
+  | "copper"
+  | "copper-dark"
+  | "charge"
+  | "discharge"
+  | "rest"
+  | "danger"
+  | "warn"
+  | "ok"
+  | "rule"
+  | "rule-strong";
 
 /** "#1d6a8a" (or "#18a") with alpha 0.2 → "rgba(29, 106, 138, 0.2)"; other colour text is returned as it is. */
 export function withAlpha(color: string, alpha: number): string {

@@ -64,11 +64,22 @@ export function legendKinds(bands: readonly StepBand[]): StepKind[] {
   return legendOrder.filter((k) => present.has(k));
 }
 
-/** Shading strength per kind: constant voltage lighter than constant current, so the two charge phases differ in grey print too. */
+/** The palette token that colours each group; "other" borrows the accent so it is not mistaken for rest. */
+export const groupToken: Record<StepGroup, "charge" | "discharge" | "rest" | "copper"> = {
+  charge: "charge",
+  discharge: "discharge",
+  rest: "rest",
+  other: "copper",
+};
+
+/**
+ * Shading strength per kind: constant voltage lighter than constant current, so the two charge
+ * phases differ in grey print too. The legend's swatches use the same strengths (bg-charge/20 …).
+ */
 export const bandAlpha: Record<StepKind, number> = {
-  "constant-current charge": 0.22,
+  "constant-current charge": 0.2,
   "constant-voltage charge": 0.1,
-  "constant-current discharge": 0.22,
-  rest: 0.14,
-  other: 0.08,
+  "constant-current discharge": 0.2,
+  rest: 0.15,
+  other: 0.1,
 };

@@ -1,0 +1,77 @@
+/**
+ * Canvas drawing for uPlot hooks: step shading under the traces, and markers (the CC→CV switch,
+ * spec limits) over them. Positions come from uPlot in canvas pixels; everything is clipped to
+ * the plotting area so a zoomed chart does not paint over its axes.
+ */
+import type uPlot from "uplot";
+import type { ColorToken } from "@/lib/charts/colors";
+import type { ColorOf } from "./uplot-chart";
+
+export interface Shade {
+  from: number;
+  to: number;
+  token: ColorToken;
+  alpha: number;
+}
+
+function clipped(u: uPlot, paint: (ctx: CanvasRenderingContext2D) => void): void {
+  const { ctx, bbox } = u;
+  ctx.save();
+  ctx.beginPath();
+  ctx.rect(bbox.left, bbox.top, bbox.width, bbox.height);
+  ctx.clip();
+  paint(ctx);
+  ctx.restore();
+}
+
+export function drawShades(u: uPlot, shades: readonly Shade[], color: ColorOf): void {
+  clipped(u, (ctx) => {
+    for (const s of shades) {
+      const x0 = u.valToPos(s.from, "x", true);
+      const x1 = u.valToPos(s.to, "x", true);
+      if (!(x1 > u.bbox.left) || !(x0 < u.bbox.left + u.bbox.width)) continue;
+      ctx.fillStyle = color(s.token, s.alpha);
+      ctx.fillRect(x0, u.bbox.top, x1 - x0, u.bbox.height);
+    }
+  });
+}
+
+export interface Marker {
+  x: number;
+  /** A point on the marker, on `scale`. */
+  y?: number | null;
+  label: string;
+}
+
+/** Dashed vertical lines with a label at the top, and a ringed point where `y` is given. */
+export function drawMarkers(u: uPlot, markers: readonly Marker[], scale: string, token: ColorToken, color: ColorOf): void {
+  const dpr = typeof devicePixelRatio === "number" ? devicePixelRatio : 1;
+  clipped(u, (ctx) => {
+    ctx.strokeStyle = color(token);
+    ctx.fillStyle = color(token);
+    ctx.lineWidth = 1.5 * dpr;
+    ctx.font = `600 ${11 * dpr}px ${getComputedStyle(document.body).fontFamily}`;
+    for (const m of markers) {
+      const x = u.valToPos(m.x, "x", true);
+      ctx.setLineDash([5 * dpr, 3 * dpr]);
+      ctx.beginPath();
+      ctx.moveTo(x, u.bbox.top);
+      ctx.lineTo(x, u.bbox.top + u.bbox.height);
+      ctx.stroke();
+      ctx.setLineDash([]);
+      if (m.y !== null && m.y !== undefined && Number.isFinite(m.y)) {
+        const y = u.valToPos(m.y, scale, true);
+        ctx.beginPath();
+        ctx.arc(x, y, 4.5 * dpr, 0, 2 * Math.PI);
+        ctx.fillStyle = color("sheet");
+        ctx.fill();
+        ctx.stroke();
+        ctx.fillStyle = color(token);
+      }
+      // Labels sit right of the line, or left of it near the right edge.
+      const width = ctx.measureText(m.label).width;
+      const right = x + 4 * dpr + width < u.bbox.left + u.bbox.width;
+      ctx.fillText(m.label, right ? x + 4 * dpr : x - 4 * dpr - width, u.bbox.top + 12 * dpr);
+    }
+  });
+}
