@@ -9,7 +9,9 @@ import { randomBytes } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
 import { closeDatabase, installDatabaseHandle, openDatabase, type DatabaseTarget } from "@/lib/db/client";
+import { seedDemoRuns } from "@/lib/demo/seed-runs";
 import { seedDemo } from "@/lib/db/seed";
+import { stopAnalysis } from "@/lib/ingest/runner";
 import { uploadEnvProblems, UploadServiceNotConfigured } from "@/lib/uploads/env";
 import { startLocalServices, type LocalServices } from "./local-services";
 
@@ -80,7 +82,16 @@ async function main(): Promise<void> {
   try {
     const seeded = await seedDemo(handle.db);
     console.log(seeded.seeded ? `Seeded the demo scenario (${seeded.users} users, ${seeded.cells} cells).` : "Database ready.");
+    if (seeded.seeded && !process.argv.includes("--no-demo-runs")) {
+      // The demo's runs go through the real upload service and analysis worker, configured as the app will be.
+      Object.assign(process.env, services.env, { UPLOADTHING_CALLBACK_URL: env.UPLOADTHING_CALLBACK_URL });
+      const stored = await seedDemoRuns(handle.db, (done, total) => {
+        if (done === total || done % 10 === 0) console.log(`Analysing the demo's bench logs: ${done} of ${total}`);
+      });
+      console.log(`Stored and analysed ${stored} demo runs.`);
+    }
   } finally {
+    await stopAnalysis();
     await closeDatabase();
   }
 

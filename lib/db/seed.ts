@@ -32,8 +32,8 @@ const demoCellTypes = [
 ];
 
 const demoBatches = [
-  { lotCode: "P1000-2610-A", type: 0, supplier: "Eastgate Cell Supply (demo)", receivedOn: "2026-10-06", quantity: 24, lsl: 980, usl: 1080, prefix: "PA" },
-  { lotCode: "P1000-2611-B", type: 0, supplier: "Eastgate Cell Supply (demo)", receivedOn: "2026-11-03", quantity: 24, lsl: 980, usl: 1080, prefix: "PB" },
+  { lotCode: "P1000-2610-A", type: 0, supplier: "Eastgate Cell Supply (demo)", receivedOn: "2026-10-06", quantity: 24, lsl: 1000, usl: 1150, prefix: "PA" },
+  { lotCode: "P1000-2611-B", type: 0, supplier: "Eastgate Cell Supply (demo)", receivedOn: "2026-11-03", quantity: 24, lsl: 1000, usl: 1150, prefix: "PB" },
   { lotCode: "C2500-2611-01", type: 1, supplier: "Harrow Energy Components (demo)", receivedOn: "2026-11-17", quantity: 12, lsl: 2450, usl: null, prefix: "CA" },
 ];
 

@@ -10,8 +10,8 @@
  */
 import fs from "node:fs";
 import path from "node:path";
-import { protocol, simulate, type SampledSeries } from "../sim";
-import { demoCapacityFactors, demoFadingSerial } from "./scenario";
+import { createPrng, protocol, simulate, type SampledSeries } from "../sim";
+import { demoCapacityFactors, demoFadingSerial, demoLots } from "./scenario";
 
 const outDir = path.join(process.cwd(), "public", "demo-logs");
 
@@ -89,6 +89,20 @@ function main(): void {
   // The IEC 61960-3 DC resistance sequence on a charged, rested cell, logged at 5 Hz.
   const dcir = protocol().rest(300).pulse(-0.2, 10).pulse(-1, 1).rest(120).build();
   writeLog("PA-0003-internal-resistance.csv", fastStyle(simulate(dcir, { ratedCapacity_mAh: 1000, initialSoc: 0.97, logInterval_s: 0.2, seed: 3 }).samples));
+
+  // Every cell of two lots gets an incoming capacity check, logged once a minute.
+  for (const lot of demoLots) {
+    const dir = path.join(outDir, `lot-${lot.prefix}`);
+    fs.mkdirSync(dir, { recursive: true });
+    const prng = createPrng(lot.seed);
+    for (let n = 1; n <= lot.cells; n++) {
+      const serial = `${lot.prefix}-${String(n).padStart(4, "0")}`;
+      const low = "lowCell" in lot && lot.lowCell.serial === serial ? lot.lowCell.factor : null;
+      const factor = low ?? lot.meanFactor + lot.sdFactor * prng.normal();
+      fs.writeFileSync(path.join(dir, `${serial}-incoming-capacity.csv`), plainStyle(capacityCheck(lot.seed + n, factor, 60)));
+    }
+    console.log(`lot-${lot.prefix}: ${lot.cells} capacity checks`);
+  }
 
   // A log whose clock jumped back: the upload must refuse it with the line.
   const broken = plainStyle(capacityCheck(5, 1, 60)).split("\n");
