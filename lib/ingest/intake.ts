@@ -15,8 +15,11 @@ export async function columnMapOf(input: { columnMapId?: string; columnMap?: Col
   return input.columnMap ?? null;
 }
 
+/** A run record's fields that come from the upload form (the rest come from the stored file). */
+export type RunFields = Omit<NewRun, "source" | "fileKey" | "fileName" | "fileSize" | "sha256">;
+
 /** The upload form's fields as a run record needs them, for the given uploader. */
-export function runFields(input: RunUploadInput, user: SessionUser, columnMap: ColumnMap | null) {
+export function runFields(input: RunUploadInput, user: SessionUser, columnMap: ColumnMap | null): RunFields {
   return {
     cellSerial: input.cellSerial,
     newCell: { batchId: input.batchId, cellTypeId: input.cellTypeId },
@@ -25,7 +28,7 @@ export function runFields(input: RunUploadInput, user: SessionUser, columnMap: C
     ambientTempC: input.ambientTempC ?? null,
     operatorNote: input.operatorNote,
     columnMap,
-  } satisfies Partial<NewRun>;
+  };
 }
 
 export type StoredFile = { key: string; name: string; size: number };
@@ -37,7 +40,7 @@ export type StoredFile = { key: string; name: string; size: number };
  */
 export async function admitStoredFile(
   file: StoredFile,
-  fields: ReturnType<typeof runFields>,
+  fields: RunFields,
   source: NewRun["source"],
   actor: { id: string; name: string },
   knownSha256?: string,

@@ -38,7 +38,7 @@ interface Slot {
 /*
  * The worker runs TypeScript sources from the repository through tsx's loader rather than a
  * bundled copy: one code path for `next start`, `next dev` and the tests. The paths are resolved
- * at run time from the project root, so the bundler leaves `new Worker()` alone.
+ * at run time from the project root, and the bundler is told to leave `new Worker()` alone.
  */
 const workerDir = () => path.join(process.cwd(), "lib", "ingest", "worker");
 
@@ -99,7 +99,8 @@ export class WorkerPool {
   }
 
   private spawn(): void {
-    const worker = new Worker(path.join(workerDir(), "boot.mjs"), {
+    // turbopackIgnore: Turbopack would otherwise try to bundle the worker entry (and tsx with esbuild's binary).
+    const worker = new Worker(/* turbopackIgnore: true */ path.join(workerDir(), "boot.mjs"), {
       workerData: { entry: path.join(workerDir(), "analysis-worker.ts") },
       resourceLimits: { maxOldGenerationSizeMb: this.heapLimitMb },
       // The worker's console goes to the server log like the main thread's.

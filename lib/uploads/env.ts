@@ -41,7 +41,7 @@ function decodesAsToken(token: string): boolean {
 }
 
 /** Problems with the upload settings in `env`, one line each; empty when they are usable. */
-export function uploadEnvProblems(env: NodeJS.ProcessEnv = process.env): string[] {
+export function uploadEnvProblems(env: Record<string, string | undefined> = process.env): string[] {
   const parsed = uploadEnvSchema.safeParse(env);
   return parsed.success ? [] : parsed.error.issues.map((issue) => issue.message);
 }
@@ -57,7 +57,7 @@ export class UploadServiceNotConfigured extends Error {
  * Validated upload settings, read from the environment on each call (the SDK itself reads
  * process.env on each call too, so both always agree). Throws UploadServiceNotConfigured.
  */
-export function uploadEnv(env: NodeJS.ProcessEnv = process.env): UploadEnv {
+export function uploadEnv(env: Record<string, string | undefined> = process.env): UploadEnv {
   const parsed = uploadEnvSchema.safeParse(env);
   if (!parsed.success) throw new UploadServiceNotConfigured(parsed.error.issues.map((issue) => issue.message));
   return parsed.data;

@@ -35,7 +35,7 @@ describe("upload service settings", () => {
     try {
       // An ingest URL alone means "use a real service", so no local fake fills the gap.
       const result = spawnSync(process.execPath, [path.join("node_modules", "tsx", "dist", "cli.mjs"), "--conditions=react-server", "lib/cli/start.ts"], {
-        env: { PATH: process.env.PATH, HOME: process.env.HOME, KNEEPOINT_DATA_ROOT: dataRoot, UPLOADTHING_TOKEN: token, UPLOADTHING_INGEST_URL: "http://localhost:4001", SMTP_URL: "smtp://127.0.0.1:1", PORT: "0" },
+        env: { NODE_ENV: "production", PATH: process.env.PATH, HOME: process.env.HOME, KNEEPOINT_DATA_ROOT: dataRoot, UPLOADTHING_TOKEN: token, UPLOADTHING_INGEST_URL: "http://localhost:4001", SMTP_URL: "smtp://127.0.0.1:1", PORT: "0" },
         encoding: "utf8",
         timeout: 60_000,
       });
