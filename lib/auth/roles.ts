@@ -37,10 +37,31 @@ export const capabilities = {
   "run.analyse": ["technician", "engineer", "admin"],
   /** Read runs, their analyses, plots and raw files. */
   "run.read": everyone,
+  /**
+   * Add notes to a run, and amend earlier ones (a new note; the original stays). Everyone who can
+   * read a run may write in its notebook: technicians record what they saw at the bench, QA leads
+   * and engineers their review.
+   */
+  "note.write": everyone,
   /** Save named column maps from the upload page's correction. */
   "column-map.write": ["technician", "engineer", "admin"],
   /** Create and revoke one's own personal API tokens. */
   "token.manage": everyone,
+  /** See flags, their history, the fade and QA pages. Everyone: a technician should know a cell is flagged before testing it. */
+  "flag.read": everyone,
+  /** Configure flag rules and the lab's fade and alert settings (end-of-life threshold, daily digest). */
+  "flag.rule.write": ["engineer", "admin"],
+  /**
+   * Raise a flag by hand and move flags through their states. Engineers only: a flag is an
+   * engineering judgement on a cell. QA leads read flags next to a batch's figures and record
+   * their own judgement as the lot decision.
+   */
+  "flag.raise": ["engineer"],
+  "flag.transition": ["engineer"],
+  /** Accept, reject or put a lot on hold. */
+  "lot.decide": ["qa-lead"],
+  /** See the link to the local mail catcher's inbox (development only). */
+  "dev-inbox.view": ["engineer", "admin"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Capability = keyof typeof capabilities;
