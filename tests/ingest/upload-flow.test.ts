@@ -135,3 +135,12 @@ describe("upload through the file route", () => {
     expect(JSON.stringify(await unknown.json())).toMatch(/not registered/);
   });
 });
+
+describe("cross-site requests", () => {
+  it("refuses an upload request that another site's page made the browser send", async () => {
+    const headers = new Headers(technician.headers);
+    headers.set("origin", "https://elsewhere.example");
+    const file = csvFile(capacityCheckCsv(60), "x.csv");
+    expect((await requestUpload(route.routeUrl, [file], { cellSerial: "KP-UP-0001", purpose: "other" }, headers)).status).toBe(403);
+  });
+});
