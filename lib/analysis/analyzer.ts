@@ -225,7 +225,7 @@ export class StreamingAnalyzer {
     if ((n & 3) === 0 || n < 256) this.interval.add(r.t, n, MASK);
     let iNew = i;
     let integrated = true;
-    if (dt > this.interval.gapThreshold()) {
+    if (dt > this.interval.threshold) {
       const runStart = this.segmenter.currentRunStart;
       const from = Math.max(runStart, n - 8);
       const level = from <= n - 1 ? meanCurrent(r, from, n - 1) : ip;

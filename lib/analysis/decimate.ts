@@ -24,7 +24,10 @@ export class MinMaxDecimator {
   private oTmax = 0;
   private oYmax = -Infinity;
 
-  add(t: number, y: number): void {
+  /** Adds (t[j], y[j]); indices rather than values cross the call, so nothing is boxed. */
+  addAt(tColumn: Float64Array, yColumn: Float64Array, j: number): void {
+    const t = tColumn[j] ?? 0;
+    const y = yColumn[j] ?? NaN;
     if (!(y === y)) return;
     if (y < this.oYmin) {
       this.oYmin = y;

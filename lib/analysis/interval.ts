@@ -9,18 +9,23 @@ export const gapFactor = 5;
 
 export class IntervalScale {
   private readonly med = new BlockMedian();
+  /** Intervals longer than this are gaps; Infinity until an interval has been seen. Kept as a field so the per-sample read boxes nothing. */
+  threshold = Infinity;
+  private seenVersion = -1;
+
   /** Adds the interval before sample k of a ring time column. */
   add(t: Float64Array, k: number, mask: number): void {
-    const dt = (t[k & mask] ?? 0) - (t[(k - 1) & mask] ?? 0);
-    if (dt > 0) this.med.add(dt);
+    this.med.addPositiveDifference(t, k, mask);
+    const version = this.med.version;
+    if (version !== this.seenVersion) {
+      this.seenVersion = version;
+      const m = this.med.value();
+      this.threshold = m === m && m > 0 ? gapFactor * m : Infinity;
+    }
   }
+
   typical(): number {
     const m = this.med.value();
     return m === m ? m : NaN;
-  }
-  /** Intervals longer than this are gaps; Infinity until an interval has been seen. */
-  gapThreshold(): number {
-    const m = this.med.value();
-    return m === m && m > 0 ? gapFactor * m : Infinity;
   }
 }

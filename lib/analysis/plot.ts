@@ -252,15 +252,12 @@ export class PlotCollector {
 
   onSample(r: SampleRing, n: number): void {
     const j = n & MASK;
-    const t = r.t[j] ?? 0;
-    const v = r.v[j] ?? 0;
-    const i = r.i[j] ?? 0;
+    this.vTrace.addAt(r.t, r.v, j);
+    this.iTrace.addAt(r.t, r.i, j);
     const temp = r.temp[j] ?? NaN;
-    this.vTrace.add(t, v);
-    this.iTrace.add(t, i);
     if (temp === temp) {
       this.hasTemp = true;
-      this.tTrace.add(t, temp);
+      this.tTrace.addAt(r.t, r.temp, j);
     }
   }
 

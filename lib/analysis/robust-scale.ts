@@ -22,6 +22,18 @@ export class BlockMedian {
   private blocks = 0;
   private current = NaN;
 
+  /** Adds |a[k] − a[k−1]| (k and k−1 masked), read here so no number crosses the call. */
+  addAbsDifference(a: Float64Array, k: number, mask: number): void {
+    const x = (a[k & mask] ?? 0) - (a[(k - 1) & mask] ?? 0);
+    this.add(x < 0 ? -x : x);
+  }
+
+  /** Adds a[k] − a[k−1] when positive (k and k−1 masked). */
+  addPositiveDifference(a: Float64Array, k: number, mask: number): void {
+    const x = (a[k & mask] ?? 0) - (a[(k - 1) & mask] ?? 0);
+    if (x > 0) this.add(x);
+  }
+
   add(x: number): void {
     this.block[this.filled++] = x;
     if (this.filled === blockSize) {
@@ -32,11 +44,11 @@ export class BlockMedian {
       this.blocks += 1;
       this.filled = 0;
       const n = Math.min(this.blocks, historySize);
-      this.historyScratch.set(this.history.subarray(0, n));
+      for (let k = 0; k < n; k++) this.historyScratch[k] = this.history[k] ?? 0;
       this.current = median(this.historyScratch, n);
     } else if (this.blocks === 0) {
       // Before the first block is complete, use the median of what has been seen.
-      this.scratch.set(this.block.subarray(0, this.filled));
+      for (let k = 0; k < this.filled; k++) this.scratch[k] = this.block[k] ?? 0;
       this.current = median(this.scratch, this.filled);
     }
   }
@@ -44,6 +56,11 @@ export class BlockMedian {
   /** NaN until a value has been added. */
   value(): number {
     return this.current;
+  }
+
+  /** Blocks completed so far (the value changes only when this does). */
+  get version(): number {
+    return this.blocks + (this.blocks === 0 ? this.filled : 0);
   }
 }
 
@@ -55,9 +72,7 @@ export class NoiseScale {
   private readonly med = new BlockMedian();
   constructor(private readonly mask: number) {}
   add(column: Float64Array, k: number): void {
-    const x = column[k & this.mask] ?? 0;
-    const p = column[(k - 1) & this.mask] ?? 0;
-    this.med.add(x > p ? x - p : p - x);
+    this.med.addAbsDifference(column, k, this.mask);
   }
   sigma(): number {
     const m = this.med.value();
