@@ -19,6 +19,19 @@ const serverEnvSchema = z.object({
   BETTER_AUTH_URL: z.url().default("http://localhost:3000"),
   /** Extra browser origins allowed to post to the auth endpoints (comma-separated). */
   KNEEPOINT_TRUSTED_ORIGINS: z.string().default(""),
+  /** The mail server for alerts, smtp://[user:pass@]host:port or smtps://…; without it mail waits in the outbox. */
+  SMTP_URL: z
+    .string()
+    .regex(/^smtps?:\/\/[^/\s]+/, "SMTP_URL must look like smtp://host:port or smtps://host:port")
+    .optional()
+    .or(z.literal("").transform(() => undefined)),
+  /** Sender of alert mail. */
+  KNEEPOINT_MAIL_FROM: z.string().min(3).default("Kneepoint alerts <alerts@kneepoint.localhost>"),
+  /** The local mail catcher's inbox page, set by `npm start` in development. */
+  KNEEPOINT_DEV_INBOX_URL: z
+    .url()
+    .optional()
+    .or(z.literal("").transform(() => undefined)),
 });
 
 export type ServerEnv = z.infer<typeof serverEnvSchema> & { dataDir: string };

@@ -129,6 +129,19 @@ export function describeRule(kind: FlagRuleKind, bound: number | null, eolThresh
   }
 }
 
-function formatNumber(n: number): string {
+export function formatNumber(n: number): string {
   return Number.isInteger(n) ? String(n) : String(Number(n.toPrecision(4)));
+}
+
+/** The flag's measured value against its bound in words, or null when it has no value. */
+export function valueAgainstBound(f: { value: number | null; bound: number | null; unit: string | null }): string | null {
+  if (f.value === null) return null;
+  const unit = f.unit ? ` ${f.unit}` : "";
+  const value = `${formatNumber(f.value)}${unit}`;
+  return f.bound === null ? value : `${value} against a bound of ${formatNumber(f.bound)}${unit}`;
+}
+
+/** A kind's heading: the rule kind's title, or "Raised by hand". */
+export function kindTitle(kind: string): string {
+  return kind === byHandKind ? "Raised by hand" : (ruleKindInfo[kind as FlagRuleKind]?.title ?? kind);
 }

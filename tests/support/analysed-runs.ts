@@ -1,0 +1,51 @@
+import { createHash } from "node:crypto";
+import { createAnalyzer } from "@/lib/analysis";
+import { readLog } from "@/lib/analysis/read";
+import type { AuditActor } from "@/lib/db/queries/audit";
+import { claimQueuedRun, completeAnalysis, recordRun } from "@/lib/db/queries/runs";
+import { analysisRows } from "@/lib/ingest/report-rows";
+import type { RunPurpose } from "@/lib/validations/runs";
+
+async function* bytes(text: string): AsyncIterable<Uint8Array> {
+  yield new TextEncoder().encode(text);
+}
+
+/**
+ * A bench log stored the way the ingest stores one, without the upload service and the worker:
+ * the run recorded (recordRun), claimed (claimQueuedRun), analysed by the real engine with the
+ * cell type's limits, and stored as a version (completeAnalysis) in one transaction.
+ */
+export async function storeAnalysedRun(
+  actor: AuditActor,
+  options: { serial: string; csv: string; purpose: RunPurpose; fileName?: string },
+): Promise<{ runId: string; cellId: string; version: number }> {
+  const sha256 = createHash("sha256").update(options.csv).digest("hex");
+  const { runId, cellId } = await recordRun(
+    {
+      cellSerial: options.serial,
+      mayCreateCell: false,
+      source: "api",
+      purpose: options.purpose,
+      ambientTempC: 23,
+      operatorNote: "",
+      fileKey: `test/${sha256}`,
+      fileName: options.fileName ?? `${options.serial}-${sha256.slice(0, 8)}.csv`,
+      fileSize: Buffer.byteLength(options.csv),
+      sha256,
+      columnMap: null,
+    },
+    actor,
+  );
+  const claim = await claimQueuedRun(runId);
+  if (!claim) throw new Error("the run was not queued");
+  const analyzer = createAnalyzer({ limits: claim.limits });
+  const summary = await readLog(bytes(options.csv), (batch) => analyzer.push(batch), { fileName: claim.fileName });
+  const output = analyzer.finish(summary);
+  const stored = await completeAnalysis(claim, {
+    rows: analysisRows(output.report, output.series),
+    columnMap: summary.detection.columnMap,
+    engineVersion: "test",
+  });
+  if (!stored) throw new Error("the analysis was not stored");
+  return { runId, cellId, version: stored.version };
+}
