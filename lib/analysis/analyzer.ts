@@ -45,8 +45,10 @@ export interface AnalyzerCore {
   plot: PlotCollector;
 }
 
+/** The segmenter works this many samples behind the newest one. */
+const segmenterLag = 32;
 /** Plot material is gathered this many samples behind the newest, after boundaries are decided. */
-const plotLag = 200;
+const plotLag = 256;
 
 export class StreamingAnalyzer {
   readonly ring = new SampleRing();
@@ -165,7 +167,7 @@ export class StreamingAnalyzer {
       const ai = i < 0 ? -i : i;
       if (ai > this.maxAbsI) this.maxAbsI = ai;
       // Noise is estimated from every 4th pair of samples; thresholds follow every 64 samples.
-      if ((n & 3) === 0 && n > 0) {
+      if (n > 0 && (n < 256 || (n & 3) === 0)) {
         this.noiseI.add(r.i, n);
         this.noiseV.add(r.v, n);
       }
@@ -191,7 +193,9 @@ export class StreamingAnalyzer {
         if (temp < this.tempMin) this.tempMin = temp;
       }
 
-      this.segmenter.onSample(n, th, this.hasStep);
+      // The segmenter runs segmenterLag samples behind, so its thresholds rest on a noise
+      // estimate that already covers the start of the log.
+      if (n >= segmenterLag) this.segmenter.onSample(n - segmenterLag, th, this.hasStep);
 
       if ((n & 63) === 0) {
         const typical = this.interval.typical();
@@ -230,10 +234,13 @@ export class StreamingAnalyzer {
       const from = Math.max(runStart, n - 8);
       const level = from <= n - 1 ? meanCurrent(r, from, n - 1) : ip;
       const tol = Math.max(EDGE.sigmas * th.sigmaI * Math.sqrt(1 + 1 / 8), EDGE.relative * Math.abs(level), th.floorCurrent);
+      // The segmenter runs behind, so also check that the window before the gap is one level.
+      let oneLevel = true;
+      for (let k = from; k <= n - 1; k++) if (Math.abs((r.i[k & MASK] ?? 0) - level) > tol) oneLevel = false;
       const sa = r.step[jp] ?? NaN;
       const sb = r.step[j] ?? NaN;
       const sameStep = !(sa === sa && sb === sb && sa !== sb);
-      integrated = sameStep && Math.abs(level) > th.restCurrent && Math.abs(i - level) <= tol;
+      integrated = sameStep && oneLevel && Math.abs(level) > th.restCurrent && Math.abs(i - level) <= tol;
       const restToRest = Math.abs(ip) <= th.restCurrent * 3 && Math.abs(i) <= th.restCurrent * 3;
       const quiet = restToRest && Math.abs(v - vp) < Math.max(5 * th.sigmaV, 0.01);
       this.gapLog.add({ start_s: tp, end_s: t, line: r.line[j] ?? 0, integrated, quietRest: quiet });
@@ -304,6 +311,7 @@ export class StreamingAnalyzer {
       const j = last & MASK;
       this.addShare(r.v[j] ?? 0, 0, 0);
       this.storeCumulative(j);
+      for (let k = Math.max(0, last - segmenterLag + 1); k <= last; k++) this.segmenter.onSample(k, this.th, this.hasStep);
       this.segmenter.finish(last, this.th);
     }
     this.finished = true;
