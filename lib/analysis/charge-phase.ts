@@ -14,8 +14,9 @@
  *     voltage by ΔI·R and is not a switch.
  *  3. Locate: the current begins as a ramp, not a jump, so the CUSUM change point is late under
  *     noise. We fit a hinge — constant before τ, straight decline after τ — by least squares over
- * up to 96 samples before and 23 after the change point, and take the best τ. Measured on
- *     simulated 1 s logs with 50 mA noise on a 1 A charge: RMS error 6 samples, worst 17 of 50. With little
+ *     up to 96 samples before and 23 after the change point, and take the best τ. Measured on
+ *     simulated 1 s logs with 50 mA noise on a 1 A charge: RMS error 6.5 samples, worst 24 of 30
+ *     charges (≤ 0.35 % of the charged mAh). With little
  *     noise (σ_I < 0.1 % of the level) we take instead the first sample that falls below the
  *     CC level by 4σ or 0.02 %, which is exact on clean logs.
  */
