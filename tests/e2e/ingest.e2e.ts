@@ -94,6 +94,16 @@ describe("ingest on the built server", () => {
     expect((await settled(data.runId)).run.status).toBe("complete");
   });
 
+  it("takes a log of about 20 MB through the bench API (well past any default request-body limit)", async () => {
+    const text = capacityCheckCsv(7003, { logInterval_s: 0.03 });
+    expect(text.length).toBeGreaterThan(15 * 1024 * 1024);
+    const posted = await postLog(text, "e2e-large.csv");
+    expect(posted.status).toBe(202);
+    const { run } = (await posted.json()) as { run: { id: string; file: { size_bytes: number } } };
+    expect(run.file.size_bytes).toBe(Buffer.byteLength(text));
+    expect((await settled(run.id)).run.status).toBe("complete");
+  });
+
   it("keeps a malformed log's located error", async () => {
     const posted = await postLog(malformedCsv, "e2e-broken.csv");
     const { run } = (await posted.json()) as { run: { id: string } };
