@@ -35,6 +35,11 @@ const fixtureCell = {
     return ingest.serial;
   },
 };
+const fixtureBatch = {
+  get batchId() {
+    return ingest.batchId;
+  },
+};
 
 /** file (relative to app/) → export name → expectation */
 const matrix: Record<string, Record<string, ActionRow | RouteRow>> = {
@@ -57,6 +62,7 @@ const matrix: Record<string, Record<string, ActionRow | RouteRow>> = {
   },
   "(lab)/runs/[runId]/actions.ts": {
     reanalyseRunAction: { kind: "action", allowed: ["technician", "engineer", "admin"] },
+    addRunNoteAction: { kind: "action", allowed: all },
   },
   "(lab)/settings/actions.ts": {
     createApiTokenAction: { kind: "action", allowed: all },
@@ -108,6 +114,10 @@ const matrix: Record<string, Record<string, ActionRow | RouteRow>> = {
   "api/v1/cells/[serial]/runs/route.ts": { GET: { kind: "route", allowed: all, url: "/api/v1/cells/fixture/runs", params: fixtureCell } },
   "api/runs/[id]/route.ts": { GET: { kind: "route", allowed: all, url: "/api/runs/fixture", params: fixtureRun } },
   "api/runs/[id]/raw/route.ts": { GET: { kind: "route", allowed: all, url: "/api/runs/fixture/raw", params: fixtureRun } },
+  "api/runs/[id]/notes/route.ts": { GET: { kind: "route", allowed: all, url: "/api/runs/fixture/notes", params: fixtureRun } },
+  "api/runs/[id]/discharge-curve/route.ts": { GET: { kind: "route", allowed: all, url: "/api/runs/fixture/discharge-curve", params: fixtureRun } },
+  "api/batches/[batchId]/cells/route.ts": { GET: { kind: "route", allowed: all, url: "/api/batches/fixture/cells", params: fixtureBatch } },
+  "api/batches/[batchId]/cells/export/route.ts": { GET: { kind: "route", allowed: all, url: "/api/batches/fixture/cells/export", params: fixtureBatch } },
 };
 
 const appDir = path.join(process.cwd(), "app");

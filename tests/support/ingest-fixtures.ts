@@ -9,6 +9,8 @@ import { startUploadService, type UploadService } from "./upload-service";
 export interface IngestFixtures {
   service: UploadService;
   serial: string;
+  /** The batch the fixture cell belongs to. */
+  batchId: string;
   /** A queued run whose raw file is in the upload fake. */
   runId: string;
 }
@@ -37,7 +39,7 @@ export async function ingestFixtures(actor: AuditActor): Promise<IngestFixtures>
     },
     actor,
   );
-  return { service, serial, runId };
+  return { service, serial, batchId, runId };
 }
 
 /** A small log whose bytes differ on every call, so repeated uploads are never duplicates. */
