@@ -3,6 +3,7 @@ export const queryKeys = {
   batches: {
     all: ["batches"] as const,
     list: (params: Record<string, string | number | undefined>) => ["batches", "list", params] as const,
+    cells: (batchId: string, params: Record<string, string | number | undefined>) => ["batches", "cells", batchId, params] as const,
   },
   cells: {
     all: ["cells"] as const,
@@ -18,6 +19,8 @@ export const queryKeys = {
   runs: {
     all: ["runs"] as const,
     status: (runId: string) => ["runs", "status", runId] as const,
+    notes: (runId: string) => ["runs", "notes", runId] as const,
+    dischargeCurve: (runId: string) => ["runs", "discharge-curve", runId] as const,
   },
 };
 
