@@ -3,7 +3,7 @@
  * upload preview.
  */
 import { describe, expect, it } from "vitest";
-import { previewLog, readLog, splitHeader } from "@/lib/analysis/read";
+import { classifyMode, previewLog, readLog, splitHeader } from "@/lib/analysis/read";
 import { AnalysisRejected, columnMapSchema, type ColumnMap } from "@/lib/analysis/types";
 import { readAll, sampleSeries, logForms } from "../support/log-forms";
 
@@ -41,6 +41,27 @@ describe("unit markers in headers", () => {
     it(header, () => {
       expect(splitHeader(header).unit?.unit ?? null).toBe(unit);
     });
+});
+
+describe("mode words", () => {
+  // Ordinary words for charge / discharge / rest in seven languages, and one-letter codes.
+  const words: [string, number][] = [
+    ["Charge", 1], ["CC Charge", 1], ["CCCV_Chg", 1], ["Discharge", -1], ["CC_DChg", -1], ["Rest", 0], ["Pause", 0],
+    ["Laden", 1], ["Entladen", -1], ["Ruhe", 0],
+    ["Décharge", -1], ["Repos", 0],
+    ["Carga", 1], ["Descarga", -1], ["Reposo", 0], ["Descanso", 0],
+    ["Carica", 1], ["Scarica", -1], ["Riposo", 0],
+    ["Opladen", 1], ["Ontladen", -1], ["Rust", 0],
+    ["Repouso", 0],
+    ["C", 1], ["D", -1], ["R", 0],
+  ];
+  for (const [word, direction] of words)
+    it(word, () => {
+      expect(classifyMode(word)).toBe(direction);
+    });
+  it("leaves other words unrecognised", () => {
+    for (const word of ["Formation", "Step 3", "12", ""]) expect(Number.isNaN(classifyMode(word)), word).toBe(true);
+  });
 });
 
 describe("column detection", () => {

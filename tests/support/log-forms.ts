@@ -279,6 +279,20 @@ function formSpecs(s: Series): Spec[] {
     },
     {
       ...base,
+      name: "magnitude with French mode words, decimal comma",
+      delimiter: ";",
+      decimal: ",",
+      currentSign: "magnitude-with-mode",
+      columns: [
+        time("Temps (s)"),
+        voltage("Tension (V)"),
+        { header: "Courant (A)", cell: (k) => Math.abs(at(s.i, k)).toFixed(6), numeric: true },
+        { header: "État", cell: (k) => modeWord(at(s.i, k), ["Charge", "Décharge", "Repos"]), numeric: false },
+        ...temperature("Température (°C)"),
+      ],
+    },
+    {
+      ...base,
       name: "magnitude with one-letter modes",
       delimiter: "\t",
       currentSign: "magnitude-with-mode",

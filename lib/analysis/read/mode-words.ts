@@ -9,7 +9,7 @@ const dischargeStems = ["discharg", "dischg", "dchg", "dsg", "entlad", "decharg"
 const dischargeWords = new Set(["d", "dis", "dch"]);
 const chargeStems = ["charg", "chg", "chrg", "lad", "carg", "caric", "oplad"];
 const chargeWords = new Set(["c", "ch", "cv", "cccv"]);
-const restStems = ["rest", "paus", "idle", "ruhe", "repos", "ripos", "rust", "descans", "relax", "wait", "standby", "ocv"];
+const restStems = ["rest", "paus", "idle", "ruhe", "repos", "repous", "ripos", "rust", "descans", "relax", "wait", "standby", "ocv"];
 const restWords = new Set(["r", "open"]);
 
 function matches(word: string, stems: readonly string[], words: ReadonlySet<string>): boolean {
