@@ -4,7 +4,7 @@ import { claimDigestDay, flagStepsSince, getLabSettings, unclosedFlagsForDigest 
 import { activeEngineers, enqueueMessages } from "@/lib/db/queries/outbox";
 import { kindTitle } from "@/lib/flags/vocabulary";
 import { cellHref } from "@/lib/registry/links";
-import { flagHref } from "./flag-alert";
+import { flagHref } from "@/lib/flags/links";
 
 /** The server clock's calendar date, YYYY-MM-DD: the digest goes out once per local day. */
 export function localDate(now: Date): string {

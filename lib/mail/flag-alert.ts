@@ -3,6 +3,7 @@
  * program, and nothing from a record can turn into markup.
  */
 import { cellHref } from "@/lib/registry/links";
+import { cellHealthHref, flagHref } from "@/lib/flags/links";
 import { kindTitle, valueAgainstBound } from "@/lib/flags/vocabulary";
 
 export interface OpenedFlag {
@@ -20,14 +21,6 @@ export interface OpenedFlag {
   reason: string | null;
   /** Safety cautions of the findings behind a danger flag. */
   cautions: string[];
-}
-
-export function flagHref(flagId: string): string {
-  return `/flags/${flagId}`;
-}
-
-export function cellHealthHref(serial: string): string {
-  return `${cellHref(serial)}/health`;
 }
 
 export function flagAlert(flag: OpenedFlag, baseUrl: string): { subject: string; text: string } {

@@ -68,6 +68,18 @@ const matrix: Record<string, Record<string, ActionRow | RouteRow>> = {
     createApiTokenAction: { kind: "action", allowed: all },
     revokeApiTokenAction: { kind: "action", allowed: all },
   },
+  "(lab)/flags/actions.ts": {
+    raiseFlagAction: { kind: "action", allowed: ["engineer"] },
+    transitionFlagAction: { kind: "action", allowed: ["engineer"] },
+  },
+  "(lab)/flags/rules/actions.ts": {
+    createRuleAction: { kind: "action", allowed: ["engineer", "admin"] },
+    updateRuleAction: { kind: "action", allowed: ["engineer", "admin"] },
+    saveLabSettingsAction: { kind: "action", allowed: ["engineer", "admin"] },
+  },
+  "(lab)/batches/[batchId]/quality/actions.ts": {
+    decideLotAction: { kind: "action", allowed: ["qa-lead"] },
+  },
   "(admin)/admin/users/actions.ts": {
     createUserAction: { kind: "action", allowed: ["admin"] },
     setUserRoleAction: { kind: "action", allowed: ["admin"] },
@@ -77,6 +89,7 @@ const matrix: Record<string, Record<string, ActionRow | RouteRow>> = {
     POST: { kind: "route", allowed: "public", url: "/api/auth/sign-out" },
   },
   "api/audit/route.ts": { GET: { kind: "route", allowed: ["qa-lead", "admin"], url: "/api/audit" } },
+  "api/flags/route.ts": { GET: { kind: "route", allowed: all, url: "/api/flags?state=all" } },
   "api/batches/route.ts": { GET: { kind: "route", allowed: all, url: "/api/batches" } },
   "api/batches/export/route.ts": { GET: { kind: "route", allowed: all, url: "/api/batches/export" } },
   "api/cells/route.ts": { GET: { kind: "route", allowed: all, url: "/api/cells" } },
