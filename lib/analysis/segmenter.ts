@@ -164,7 +164,10 @@ export class Segmenter {
     if (sgn * ((r.i[(c - 1) & MASK] ?? 0) - mid) >= 0) return false;
     if (nPre >= 3 && !stepBeatsLine(r, preStart, c, n, pre, post)) return false;
 
-    const flat = Math.abs(meanVoltage(r, c, n) - meanVoltage(r, preStart, c - 1)) <= voltageBand(th, nPre, m);
+    // At the plateau the voltage does not fall across the edge; a step down to a lower constant
+    // current drops it by ΔI·R. Compared with the sample just before the edge, since the CC voltage
+    // is still rising over the pre window.
+    const flat = meanVoltage(r, c, n) >= (r.v[(c - 1) & MASK] ?? 0) - voltageBand(th, 1, m);
     const chargingDown = pre > th.restCurrent && post > th.restCurrent && post < pre;
     if (chargingDown && flat) {
       if (this.switchAt < 0) this.markSwitch(c, "sharp-edge", n);
@@ -194,7 +197,8 @@ export class Segmenter {
     // Best split over the window.
     let best = postStart;
     let bestStat = -1;
-    const lo = Math.max(this.runStart + 1, preStart + 2);
+    // In a CV phase the change to look for is its end, not the CC level before the switch.
+    const lo = Math.max(this.runStart + 1, preStart + 2, this.switchAt + 1);
     for (let k = lo; k <= n - 1; k++) {
       const n1 = k - preStart;
       const n2 = n - k + 1;
@@ -296,7 +300,6 @@ export class Segmenter {
   ): RunPart {
     const r = this.r;
     const tailStart = Math.max(a, b - 7);
-    const medianStart = Math.max(a, b - 8);
     // Short parts are still wholly in the ring; long ones had their head captured at the time.
     const short = b - a < 8;
     return {
@@ -312,7 +315,7 @@ export class Segmenter {
       vEnd: r.v[b & MASK] ?? NaN,
       headCurrent: short || head !== head ? meanCurrent(r, a, Math.min(b, a + 7)) : head,
       headVoltage: short || headV !== headV ? meanVoltage(r, a, Math.min(b, a + 7)) : headV,
-      finalCurrent: finalCurrent(r, a, b, medianStart, th),
+      finalCurrent: finalCurrent(r, a, b, th),
       tailVoltage: meanVoltage(r, tailStart, b),
       loggedStep: r.step[b & MASK] ?? NaN,
       hint,
@@ -338,21 +341,30 @@ function medianCurrent(r: SampleRing, a: number, b: number): number {
 }
 
 /**
- * The current at the end of a step: the median of its last 9 samples; under heavy noise
- * (σ above 2 % of that) the mean of samples 44..5 before the end instead, because the noisy
- * boundary may be a few samples off and the tail of a CV taper is nearly flat over 40 samples.
+ * The current at the end of a step: the median of its last rows — at most 9, and only those in
+ * the last 30 s, so a slowly logged CV taper is not read minutes early. Under heavy noise (σ above
+ * 2 % of that) the mean of rows 44..5 before the end instead, when they span under a minute:
+ * the noisy boundary may be a few rows off and the tail of a CV taper is nearly flat over 40 s.
  */
-function finalCurrent(r: SampleRing, a: number, b: number, medianStart: number, th: Thresholds): number {
-  const med = medianCurrent(r, medianStart, b);
-  if (b - a >= 48 && th.sigmaI > 0.02 * Math.abs(med)) return meanCurrent(r, b - 44, b - 5);
+function finalCurrent(r: SampleRing, a: number, b: number, th: Thresholds): number {
+  const tEnd = r.t[b & MASK] ?? 0;
+  let m = 1;
+  while (m < 9 && b - m >= a && (r.t[(b - m) & MASK] ?? -Infinity) >= tEnd - 30) m++;
+  const med = medianCurrent(r, b - m + 1, b);
+  if (b - a >= 48 && th.sigmaI > 0.02 * Math.abs(med) && tEnd - (r.t[(b - 44) & MASK] ?? 0) <= 60) return meanCurrent(r, b - 44, b - 5);
   return med;
 }
 
-/** True when a two-level step fits samples a..n (edge at c) at least twice as well as a line in time. */
-function stepBeatsLine(r: SampleRing, a: number, c: number, n: number, pre: number, post: number): boolean {
-  let sseStep = 0;
-  for (let k = a; k <= n; k++) {
-    const d = (r.i[k & MASK] ?? 0) - (k < c ? pre : post);
+/**
+ * True when "a line up to c, then a level" fits samples a..n at least twice as well as one line
+ * through all of them: an edge, not a bend of a smooth taper (a CV taper sampled every minute can
+ * fall fast, and the edge at its end follows a trend).
+ */
+function stepBeatsLine(r: SampleRing, a: number, c: number, n: number, _pre: number, post: number): boolean {
+  let sseStep = c - a >= 3 ? hingeSse(r, a, c - 1, (r.t[a & MASK] ?? 0) - 1) : 0;
+  if (!(sseStep === sseStep)) sseStep = 0;
+  for (let k = c; k <= n; k++) {
+    const d = (r.i[k & MASK] ?? 0) - post;
     sseStep += d * d;
   }
   const sseLine = hingeSse(r, a, n, (r.t[a & MASK] ?? 0) - 1);

@@ -83,6 +83,16 @@ describe("engine versus simulator ground truth", () => {
     });
   }
 
+  for (const interval of [10, 60]) {
+    it(`matches capacities within 0.5 % and the switch within about a row at ${interval} s logging`, () => {
+      const sim = simulate(plan, { ratedCapacity_mAh: rated, logInterval_s: interval });
+      const out = analyseSamples(sim.samples, limits);
+      expect(kinds(out)).toEqual(sim.truth.steps.map((s) => s.kind));
+      // Step boundaries sit midway between rows, so the switch is placed within about a row.
+      compare(out, sim.truth, { switchSamples: 1.5, finalCurrent_A: 0.005 }, interval);
+    });
+  }
+
   it("counts a gap inside a constant-current step at that current and reports it", () => {
     const sim = simulate(plan, { ratedCapacity_mAh: rated, gaps: [{ start_s: 12000, duration_s: 600 }] });
     const out = analyseSamples(sim.samples, limits);

@@ -321,7 +321,8 @@ export function simulate(plan: PlannedStep[], options: SimulationOptions = {}): 
     }
     truth.end_s = t;
     truth.endedBy = endedBy;
-    truth.endCurrent_A = step.type === "cv-hold" ? cvCurrent(state, step.voltage_V, 0) : lastCurrent;
+    // A hold that ends at once (already below its termination current) keeps the last applied current.
+    truth.endCurrent_A = step.type === "cv-hold" ? Math.max(0, Math.min(lastCurrent, cvCurrent(state, step.voltage_V, 0))) : lastCurrent;
     truth.endVoltage_V = terminal(state, truth.endCurrent_A);
     steps.push(truth);
   }
