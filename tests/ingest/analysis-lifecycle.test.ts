@@ -18,7 +18,7 @@ import { installTestDatabase, removeTestDatabase } from "../support/db";
 import { cellTypeWithBatch } from "../support/registry-fixtures";
 import { startUploadService, type UploadService } from "../support/upload-service";
 import { signedInUser, type SignedInUser } from "../support/users";
-import { fetchRaw, postLog } from "./support/bench-api";
+import { fetchRaw, fetchRun, postLog } from "./support/bench-api";
 
 vi.mock("next/cache", () => ({ revalidatePath: vi.fn(), revalidateTag: vi.fn(), updateTag: vi.fn() }));
 
@@ -72,6 +72,9 @@ describe("a malformed file", () => {
     expect(raw.status).toBe(200);
     expect(raw.headers.get("content-disposition")).toContain('filename="broken.csv"');
     expect(await raw.text()).toBe(malformedCsv);
+    // The bench API answers with the CLI's rejection JSON for it.
+    const api = (await (await fetchRun({ headers: technician.headers }, runId)).json()) as { report: unknown };
+    expect(api.report).toEqual({ status: "reject", reason: detail?.run.error?.message, code: "non-numeric", line: 6, column: 2 });
   });
 });
 
