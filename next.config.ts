@@ -1,4 +1,5 @@
 import type { NextConfig } from "next";
+import { apiContentSecurityPolicy, staticSecurityHeaders } from "./lib/http/security-headers";
 
 const nextConfig: NextConfig = {
   // PGlite ships wasm and data files; bundling them would copy ~15 MB into public static media.
@@ -12,6 +13,13 @@ const nextConfig: NextConfig = {
   typescript: { ignoreBuildErrors: true },
   // `forbidden()` answers a refused page with a real 403 and app/forbidden.tsx.
   experimental: { authInterrupts: true },
+  // Pages get their content security policy from proxy.ts (a fresh nonce per response).
+  async headers() {
+    return [
+      { source: "/:path*", headers: staticSecurityHeaders },
+      { source: "/api/:path*", headers: [{ key: "Content-Security-Policy", value: apiContentSecurityPolicy }] },
+    ];
+  },
 };
 
 export default nextConfig;

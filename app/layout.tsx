@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import localFont from "next/font/local";
+import { connection } from "next/server";
 import type { ReactNode } from "react";
 import { Providers } from "./providers";
 import "./globals.css";
@@ -29,7 +30,10 @@ export const metadata: Metadata = {
   description: "Lab notebook for battery cell charge and discharge tests",
 };
 
-export default function RootLayout({ children }: { children: ReactNode }) {
+export default async function RootLayout({ children }: { children: ReactNode }) {
+  // Every page renders per request: proxy.ts gives each response a fresh script nonce, and a page
+  // prerendered at build time would carry none, so the policy would block its scripts.
+  await connection();
   return (
     <html lang="en" className={`${plexSans.variable} ${plexMono.variable}`}>
       <body className="min-h-screen antialiased">

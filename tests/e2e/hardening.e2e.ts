@@ -1,0 +1,131 @@
+/**
+ * The hardening seen from a real browser against the built server: the content security policy
+ * lets the app itself work (sign-in, tables loaded by client script, client navigation) while
+ * refusing injected inline script; the other security headers are present; a role without a
+ * page's capability gets a real 403.
+ */
+import type { Browser, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { demoUsers } from "@/lib/db/seed-users";
+import { startAppServer, type AppServer } from "./support/app-server";
+import { freshPage, openBrowser, signIn } from "./support/browser";
+
+let app: AppServer;
+let browser: Browser;
+
+beforeAll(async () => {
+  app = await startAppServer();
+  browser = await openBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await app?.stop();
+});
+
+function demo(role: string) {
+  const user = demoUsers.find((u) => u.role === role);
+  if (!user) throw new Error(`no demo ${role}`);
+  return user;
+}
+
+/** Console messages that report a blocked resource or script: the app must cause none. */
+function watchViolations(page: Page): string[] {
+  const seen: string[] = [];
+  page.on("console", (message) => {
+    if (/content security policy|refused to/i.test(message.text())) seen.push(message.text());
+  });
+  page.on("pageerror", (error) => seen.push(`page error: ${error.message}`));
+  return seen;
+}
+
+describe("content security policy and headers", () => {
+  it("sends the policy and the other headers on pages, and a deny-all policy on API answers", async () => {
+    const response = await fetch(`${app.url}/sign-in`);
+    const policy = response.headers.get("content-security-policy") ?? "";
+    expect(policy).toMatch(/script-src 'self' 'nonce-[A-Za-z0-9+/=]{16,}' 'strict-dynamic'/);
+    expect(policy).not.toMatch(/script-src[^;]*'unsafe-inline'/);
+    expect(policy).not.toMatch(/'unsafe-eval'/);
+    expect(policy).toContain("frame-ancestors 'none'");
+    expect(policy).toContain("object-src 'none'");
+    // The upload page sends files straight to the local upload service on its own port.
+    expect(policy).toMatch(/connect-src 'self' http:\/\/(localhost|127\.0\.0\.1):\d+/);
+    const second = (await fetch(`${app.url}/sign-in`)).headers.get("content-security-policy");
+    expect(second).not.toBe(policy);
+
+    for (const res of [response, await fetch(`${app.url}/api/cells`)]) {
+      expect(res.headers.get("x-content-type-options")).toBe("nosniff");
+      expect(res.headers.get("x-frame-options")).toBe("DENY");
+      expect(res.headers.get("referrer-policy")).toBe("strict-origin-when-cross-origin");
+      expect(res.headers.get("permissions-policy")).toContain("camera=()");
+    }
+    expect((await fetch(`${app.url}/api/cells`)).headers.get("content-security-policy")).toBe("default-src 'none'; frame-ancestors 'none'");
+  });
+
+  it("lets the app run under the policy: sign in, load a table, sort it, follow a link", async () => {
+    const page = await freshPage(browser);
+    const violations = watchViolations(page);
+    const user = demo("qa-lead");
+    await signIn(page, app.url, user.email, user.password);
+    await page.goto(`${app.url}/batches`);
+    await page.getByRole("link", { name: "P1000-2611-B" }).waitFor();
+    await page.getByRole("button", { name: /Lot code/ }).click();
+    await page.waitForURL(/sort=lotCode/);
+    await page.getByRole("link", { name: "Audit trail" }).click();
+    await page.waitForURL(`${app.url}/audit`);
+    await page.getByRole("table", { name: /Audit trail/ }).getByRole("row").nth(1).waitFor();
+    expect(await page.getByRole("table", { name: /Audit trail/ }).getByText("seed").count()).toBeGreaterThan(0);
+    // Each page loaded whole, not only through client navigation: every response must carry its nonce.
+    for (const path of ["/", "/cells", "/cell-types", "/audit", "/sign-out"]) {
+      await page.goto(`${app.url}${path}`);
+      await page.waitForLoadState("networkidle");
+    }
+    await page.getByRole("button", { name: "Sign out now" }).click();
+    await page.waitForURL(`${app.url}/sign-in`);
+    expect(violations).toEqual([]);
+    await page.context().close();
+  });
+
+  it("blocks script that markup injected into a page would run: inline handlers and eval", async () => {
+    const page = await freshPage(browser);
+    const violations = watchViolations(page);
+    const user = demo("technician");
+    await signIn(page, app.url, user.email, user.password);
+    await page.goto(`${app.url}/cells`);
+    const outcome = await page.evaluate(async () => {
+      const w = window as unknown as { injected?: boolean };
+      // What an HTML injection would carry: an element with an inline event handler.
+      const img = document.createElement("img");
+      img.setAttribute("onerror", "window.injected = true");
+      img.src = "data:image/png;base64,AAAA";
+      document.body.append(img);
+      await new Promise((r) => setTimeout(r, 300));
+      let evaluated = false;
+      try {
+        evaluated = (0, eval)("true") === true;
+      } catch {
+        evaluated = false;
+      }
+      return { handler: w.injected === true, evaluated };
+    });
+    expect(outcome).toEqual({ handler: false, evaluated: false });
+    expect(violations.some((v) => /content security policy/i.test(v))).toBe(true);
+    await page.context().close();
+  });
+});
+
+describe("pages a role may not use", () => {
+  it("answers with a 403 status and the not-allowed page inside the app shell", async () => {
+    const page = await freshPage(browser);
+    const user = demo("technician");
+    await signIn(page, app.url, user.email, user.password);
+    for (const path of ["/audit", "/admin/users"]) {
+      const response = await page.goto(`${app.url}${path}`);
+      expect(response?.status(), path).toBe(403);
+      await page.getByRole("heading", { name: "This page is not open to your role" }).waitFor();
+      // One app shell around the refusal, with the person's own navigation.
+      expect(await page.getByTestId("role-badge").allTextContents()).toEqual(["Technician"]);
+      expect(await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Cells" }).count()).toBe(1);
+    }
+    await page.context().close();
+  });
+});
