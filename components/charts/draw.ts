@@ -12,6 +12,24 @@ export interface Shade {
   to: number;
   token: ColorToken;
   alpha: number;
+  /** Diagonal hatching over the fill, to tell a phase apart without relying on shade alone. */
+  hatch?: boolean;
+}
+
+function hatching(ctx: CanvasRenderingContext2D, stroke: string, dpr: number): CanvasPattern | null {
+  const size = Math.round(8 * dpr);
+  const tile = document.createElement("canvas");
+  tile.width = size;
+  tile.height = size;
+  const t = tile.getContext("2d");
+  if (!t) return null;
+  t.strokeStyle = stroke;
+  t.lineWidth = Math.max(1, dpr);
+  t.beginPath();
+  t.moveTo(0, size);
+  t.lineTo(size, 0);
+  t.stroke();
+  return ctx.createPattern(tile, "repeat");
 }
 
 function clipped(u: uPlot, paint: (ctx: CanvasRenderingContext2D) => void): void {
@@ -25,6 +43,7 @@ function clipped(u: uPlot, paint: (ctx: CanvasRenderingContext2D) => void): void
 }
 
 export function drawShades(u: uPlot, shades: readonly Shade[], color: ColorOf): void {
+  const dpr = typeof devicePixelRatio === "number" ? devicePixelRatio : 1;
   clipped(u, (ctx) => {
     for (const s of shades) {
       const x0 = u.valToPos(s.from, "x", true);
@@ -32,6 +51,11 @@ export function drawShades(u: uPlot, shades: readonly Shade[], color: ColorOf): 
       if (!(x1 > u.bbox.left) || !(x0 < u.bbox.left + u.bbox.width)) continue;
       ctx.fillStyle = color(s.token, s.alpha);
       ctx.fillRect(x0, u.bbox.top, x1 - x0, u.bbox.height);
+      const pattern = s.hatch ? hatching(ctx, color(s.token, 0.45), dpr) : null;
+      if (pattern) {
+        ctx.fillStyle = pattern;
+        ctx.fillRect(x0, u.bbox.top, x1 - x0, u.bbox.height);
+      }
     }
   });
 }

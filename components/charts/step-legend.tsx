@@ -4,7 +4,7 @@ import { stepKindWords } from "@/lib/charts/step-bands";
 /** Swatches in the shading's own strengths (lib/charts/step-bands.ts bandAlpha), written out so Tailwind sees them. */
 const swatch: Record<StepKind, string> = {
   "constant-current charge": "bg-charge/20",
-  "constant-voltage charge": "bg-charge/10",
+  "constant-voltage charge": "bg-charge/10 bg-[repeating-linear-gradient(135deg,transparent_0_3px,color-mix(in_srgb,var(--color-charge)_45%,transparent)_3px_4px)]",
   "constant-current discharge": "bg-discharge/20",
   rest: "bg-rest/15",
   other: "bg-copper/10",

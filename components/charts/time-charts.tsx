@@ -3,7 +3,7 @@
 import { useMemo } from "react";
 import { alignTraces } from "@/lib/charts/align";
 import type { PlotView, XY } from "@/lib/charts/plot-series";
-import { bandAlpha, groupToken, legendKinds, stepBands } from "@/lib/charts/step-bands";
+import { bandAlpha, groupToken, hatchedKinds, legendKinds, stepBands } from "@/lib/charts/step-bands";
 import { quantities, timeScaleFor, type TimeScale } from "@/lib/charts/units";
 import { formatClock, formatVolts } from "@/lib/notebook/format";
 import { drawMarkers, drawShades, type Marker, type Shade } from "./draw";
@@ -16,7 +16,7 @@ const inUnit = (trace: XY, scale: TimeScale) => ({ x: trace.x.map((s) => (s === 
 function useStepShading(plot: Pick<PlotView, "stepEdges" | "switchPoints">, durationS: number, scale: TimeScale) {
   return useMemo(() => {
     const bands = stepBands(plot.stepEdges, durationS);
-    const shades: Shade[] = bands.map((b) => ({ from: b.from / scale.secondsPer, to: b.to / scale.secondsPer, token: groupToken[b.group], alpha: bandAlpha[b.kind] }));
+    const shades: Shade[] = bands.map((b) => ({ from: b.from / scale.secondsPer, to: b.to / scale.secondsPer, token: groupToken[b.group], alpha: bandAlpha[b.kind], hatch: hatchedKinds.has(b.kind) }));
     const markers: Marker[] = plot.switchPoints.map((p) => ({ x: p.time_s / scale.secondsPer, y: p.voltage_V, label: "CC→CV" }));
     return { bands, shades, markers, kinds: legendKinds(bands) };
   }, [plot.stepEdges, plot.switchPoints, durationS, scale]);

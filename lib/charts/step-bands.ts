@@ -72,6 +72,9 @@ export const groupToken: Record<StepGroup, "charge" | "discharge" | "rest" | "co
   other: "copper",
 };
 
+/** Kinds drawn hatched as well as shaded: constant voltage, so the two charge phases differ without colour. */
+export const hatchedKinds: ReadonlySet<StepKind> = new Set<StepKind>(["constant-voltage charge"]);
+
 /**
  * Shading strength per kind: constant voltage lighter than constant current, so the two charge
  * phases differ in grey print too. The legend's swatches use the same strengths (bg-charge/20 …).

@@ -206,8 +206,15 @@ export default async function RunPage(props: Props) {
                   },
                   { label: "Charged in all", value: `${formatMah(report.totals.charged_mAh)} · ${formatWh(report.totals.charged_Wh)}` },
                   { label: "Discharged in all", value: `${formatMah(report.totals.discharged_mAh)} · ${formatWh(report.totals.discharged_Wh)}` },
-                  { label: "Coulombic efficiency (run)", value: formatPercent(report.totals.coulombic_efficiency, 2) },
-                  { label: "Energy efficiency (run)", value: formatPercent(report.totals.energy_efficiency, 1) },
+                  // Whole-log efficiencies mislead when a log opens with a discharge from an unknown charge, so the capacity cycle's own are shown.
+                  {
+                    label: delivered?.afterCharge ? `Coulombic efficiency, cycle ${delivered.cycle}` : "Coulombic efficiency",
+                    value: delivered?.afterCharge ? formatPercent(delivered.coulombicEfficiency, 2) : missing,
+                  },
+                  {
+                    label: delivered?.afterCharge ? `Energy efficiency, cycle ${delivered.cycle}` : "Energy efficiency",
+                    value: delivered?.afterCharge ? formatPercent(report.cycles.find((c) => c.cycle === delivered.cycle)?.energy_efficiency, 1) : missing,
+                  },
                   { label: "Mean discharge voltage", value: formatVolts(report.totals.mean_discharge_voltage_V) },
                   {
                     label: "CC→CV switch",

@@ -3,9 +3,9 @@ import type { CycleView } from "@/lib/notebook/report-view";
 import { formatClock, formatCRate, formatMah, formatPercent, formatVolts, missing } from "@/lib/notebook/format";
 
 const cvEnd: Record<string, string> = {
-  "termination-current": "reached the termination current",
-  "cut-short": "cut short before termination",
-  unknown: "no termination current known",
+  "termination-current": "at termination current",
+  "cut-short": "cut short",
+  unknown: "termination unknown",
 };
 
 /** The switch point in the trade's terms: when, at what voltage, after how much charge. */
