@@ -9,7 +9,7 @@ import { AuditDiff } from "@/app/(lab)/audit/_components/audit-diff";
 import { GET } from "@/app/api/audit/route";
 import type { AuditPage } from "@/lib/db/queries/audit";
 import { createCell, importSerials } from "@/lib/db/queries/registry";
-import { auditEvent } from "@/lib/db/schema";
+import { auditEvent, run } from "@/lib/db/schema";
 import type { DatabaseHandle } from "@/lib/db/client";
 import { installTestDatabase, removeTestDatabase } from "../support/db";
 import { cellTypeWithBatch } from "../support/registry-fixtures";
@@ -105,18 +105,35 @@ describe("GET /api/audit", () => {
     expect(page.items[0]).toMatchObject({ entityLabel: "AUD/LOOSE#1", entityHref: "/cells/AUD%2FLOOSE%231" });
     const batchEvent = (await audit(admin, { entity: "batch" })).items[0];
     expect(batchEvent).toMatchObject({ entityLabel: "LOT-AUD-1", entityHref: `/batches/${batchId}` });
-    const run = (await audit(admin, { q: "run-old-1" })).items[0];
-    expect(run).toMatchObject({ entityLabel: null, entityHref: null });
+    const gone = (await audit(admin, { q: "run-old-1" })).items[0];
+    expect(gone).toMatchObject({ entityLabel: null, entityHref: null });
+  });
+
+  it("names a stored run by its file name and links its page", async () => {
+    // A run row as the ingest path stores it, and its upload event, written directly (insert only).
+    const [stored] = await handle.db
+      .insert(run)
+      .values({ cellId: looseCellId, source: "browser", purpose: "capacity check", fileKey: "k-aud-1", fileName: "<b>bench 4</b>.csv", fileSize: 10, sha256: "0".repeat(64) })
+      .returning({ id: run.id });
+    const runId = stored?.id ?? "";
+    await handle.db.insert(auditEvent).values({ actorId: engineer.id, actorName: "Eli Engineer", action: "upload", entity: "run", entityId: runId, after: { serial: "AUD/LOOSE#1" } });
+    const [event] = (await audit(qa, { entity: "run", action: "upload" })).items;
+    expect(event).toMatchObject({ entityId: runId, entityLabel: "<b>bench 4</b>.csv", entityHref: `/runs/${runId}` });
+    // The cell's serial recorded in the event finds it too: an auditor follows a cell through its runs.
+    expect((await audit(qa, { q: "AUD/LOOSE" })).items.map((e) => `${e.action} ${e.entity}`)).toEqual(["upload run", "create cell"]);
   });
 
   it("pages through the trail", async () => {
     const first = await audit(qa, { pageSize: "4", page: "1" });
     const third = await audit(qa, { pageSize: "4", page: "3" });
     expect(first.items).toHaveLength(4);
-    expect(third.items).toHaveLength(3);
-    expect(third.total).toBe(11);
+    // 11 events from the set-up plus the run's upload event from the test above.
+    expect(third.items).toHaveLength(4);
+    expect(third.total).toBe(12);
+    const fourth = await audit(qa, { pageSize: "4", page: "4" });
+    expect(fourth.items).toEqual([]);
     const ids = new Set([...first.items, ...third.items].map((e) => e.id));
-    expect(ids.size).toBe(7);
+    expect(ids.size).toBe(8);
   });
 
   it("is refused to roles without audit.read and to signed-out requests", async () => {

@@ -1,9 +1,10 @@
 import "server-only";
 import { and, asc, count, desc, eq, gte, ilike, inArray, isNull, lt, or, sql, type SQL } from "drizzle-orm";
+import { runHref } from "@/lib/flags/links";
 import { batchHref, cellHref } from "@/lib/registry/links";
 import { systemActor, type AuditListQuery } from "@/lib/validations/audit";
 import { getDb, type Executor } from "../client";
-import { auditEvent, batch, cell, cellType, user } from "../schema";
+import { auditEvent, batch, cell, cellType, run, user } from "../schema";
 
 export interface AuditActor {
   id: string;
@@ -97,12 +98,13 @@ function auditFilters(query: AuditListQuery): SQL | undefined {
 
 type Labels = Map<string, { label: string; href: string | null }>;
 
-/** Current names for the entities on one page of events: one small query per kind, by primary key. */
+/** Current names and pages for the entities on one page of events: one small query per kind, by primary key. */
 async function currentLabels(db: Executor, rows: { entity: string; entityId: string }[]): Promise<Labels> {
   const idsOf = (kind: string) => [...new Set(rows.filter((r) => r.entity === kind).map((r) => r.entityId))];
   const uuidsOf = (kind: string) => idsOf(kind).filter((id) => uuidPattern.test(id));
-  const [cells, batches, types, users] = await Promise.all([
+  const [cells, runs, batches, types, users] = await Promise.all([
     uuidsOf("cell").length ? db.select({ id: cell.id, serial: cell.serial }).from(cell).where(inArray(cell.id, uuidsOf("cell"))) : [],
+    uuidsOf("run").length ? db.select({ id: run.id, fileName: run.fileName }).from(run).where(inArray(run.id, uuidsOf("run"))) : [],
     uuidsOf("batch").length ? db.select({ id: batch.id, lotCode: batch.lotCode }).from(batch).where(inArray(batch.id, uuidsOf("batch"))) : [],
     uuidsOf("cell type").length
       ? db.select({ id: cellType.id, name: cellType.name }).from(cellType).where(inArray(cellType.id, uuidsOf("cell type")))
@@ -112,6 +114,7 @@ async function currentLabels(db: Executor, rows: { entity: string; entityId: str
   const labels: Labels = new Map();
   for (const c of cells) labels.set(`cell:${c.id}`, { label: c.serial, href: cellHref(c.serial) });
   for (const b of batches) labels.set(`batch:${b.id}`, { label: b.lotCode, href: batchHref(b.id) });
+  for (const r of runs) labels.set(`run:${r.id}`, { label: r.fileName, href: runHref(r.id) });
   for (const t of types) labels.set(`cell type:${t.id}`, { label: t.name, href: null });
   for (const u of users) labels.set(`user:${u.id}`, { label: u.name, href: null });
   return labels;
