@@ -11,6 +11,7 @@ import { getDb } from "@/lib/db/client";
 import { getFlagDetail } from "@/lib/db/queries/flags";
 import { createCell, getCellBySerial } from "@/lib/db/queries/registry";
 import { flagTransition } from "@/lib/db/schema";
+import type { FlagState } from "@/lib/flags/vocabulary";
 import { stopOutboxSender } from "@/lib/mail/sender";
 import { installTestDatabase, removeTestDatabase } from "../support/db";
 import { cellTypeWithBatch } from "../support/registry-fixtures";
@@ -52,7 +53,7 @@ describe("flag steps", () => {
     const flagId = await raise("KP-STEP-1");
     expect((await getCellBySerial("KP-STEP-1"))?.status).toBe("flagged");
 
-    const steps: [SignedInUser, "acknowledged" | "retest requested" | "cleared", string, string][] = [
+    const steps: [SignedInUser, FlagState, FlagState, string][] = [
       [engineer, "acknowledged", "open", "Seen; the cell is set aside"],
       [other, "retest requested", "acknowledged", "Repeat the capacity check at 0.2C"],
       [engineer, "cleared", "retest requested", "Retest within spec; the swelling was the pouch label"],
