@@ -12,7 +12,7 @@ import type { AddRunNoteInput } from "@/lib/validations/notebook";
 import { getDb, type Executor } from "../client";
 import { analysisVersion, batch, cell, cellType, flag, plotSeries, run, runCycle, runNote } from "../schema";
 import { recordAudit, type AuditActor } from "./audit";
-import { getRunDetail, listRunsOfCell, type RunDetail, type RunListItem } from "./run-views";
+import { getRunDetail, getRunHeader, listRunsOfCell, type RunDetail, type RunListItem } from "./run-views";
 
 /**
  * Reads for the notebook pages (run, cell, batch) and the run notes. Built on the ingest's run
@@ -255,6 +255,21 @@ export async function getRunDischargeCurve(runId: string): Promise<RunDischargeC
     .from(runCycle)
     .where(eq(runCycle.analysisId, row.analysisId));
   return dischargeCurve(capacityCurvesOf(row.data), deliveredCapacity(cycles)?.cycle ?? null);
+}
+
+/** What GET /api/runs/:id/discharge-curve sends, and what a page prefetches for first paint. */
+export interface DischargeCurvePayload {
+  runId: string;
+  serial: string;
+  createdAt: string;
+  /** Null for a run without one (not analysed yet, or no discharge). */
+  curve: RunDischargeCurve | null;
+}
+
+export async function getDischargeCurvePayload(runId: string): Promise<DischargeCurvePayload | null> {
+  const header = await getRunHeader(runId);
+  if (!header) return null;
+  return { runId: header.id, serial: header.serial, createdAt: header.createdAt.toISOString(), curve: await getRunDischargeCurve(header.id) };
 }
 
 /* ---------------------------------- the batch page ---------------------------------- */

@@ -1,7 +1,6 @@
 import { z } from "zod";
 import { defineRoute } from "@/lib/auth/route";
-import { getRunDischargeCurve } from "@/lib/db/queries/notebook";
-import { getRunHeader } from "@/lib/db/queries/run-views";
+import { getDischargeCurvePayload } from "@/lib/db/queries/notebook";
 import { AppError } from "@/lib/http/errors";
 
 const idParam = z.uuid();
@@ -12,7 +11,7 @@ const idParam = z.uuid();
  */
 export const GET = defineRoute("run.read", z.object({}), async ({ params }) => {
   const id = idParam.safeParse(params.id);
-  const header = id.success ? await getRunHeader(id.data) : null;
-  if (!header) throw new AppError("not-found", "No run has this id.");
-  return { runId: header.id, serial: header.serial, createdAt: header.createdAt.toISOString(), curve: await getRunDischargeCurve(header.id) };
+  const payload = id.success ? await getDischargeCurvePayload(id.data) : null;
+  if (!payload) throw new AppError("not-found", "No run has this id.");
+  return payload;
 });
