@@ -85,3 +85,16 @@ export const lotDecisionInput = z.object({
   expectedDisposition: z.enum(["pending", ...lotDecisions]),
 });
 export type LotDecisionInput = z.output<typeof lotDecisionInput>;
+
+/** Matched-set settings on the quality page's query string; tolerances are vendor guidance, not a standard. */
+export const matchQuery = z.object({
+  setSize: z.coerce.number().int().min(2).max(50).default(4),
+  capTol: z.coerce.number().min(0).max(20).default(2),
+  dcirTol: z.preprocess(blankToUndefined, z.coerce.number().min(0).max(50).optional()),
+  ignoreDcir: z.preprocess((v) => v === "on" || v === "1", z.boolean()),
+});
+
+/** Batches to compare, from repeated `batch` query parameters. */
+export const compareQuery = z.object({
+  batch: z.preprocess((v) => (v === undefined ? [] : Array.isArray(v) ? v : [v]), z.array(z.uuid()).max(8, "Compare at most 8 batches")),
+});

@@ -1,0 +1,66 @@
+"use client";
+
+import { useActionState, useState } from "react";
+import { Button } from "@/components/ui/button";
+import { TextAreaField } from "@/components/ui/field";
+import { FormMessage } from "@/components/ui/form-message";
+import { Panel } from "@/components/ui/panel";
+import type { ActionResult } from "@/lib/auth/action-result";
+import { decideLotAction } from "../actions";
+
+const choices = [
+  { value: "accepted", label: "Accept the lot" },
+  { value: "on hold", label: "Put the lot on hold" },
+  { value: "rejected", label: "Reject the lot" },
+] as const;
+
+/** The QA lead's decision, made beside the figures it rests on; the server records those figures with it. */
+export function LotDecisionForm({ batchId, disposition }: { batchId: string; disposition: string }) {
+  const options = choices.filter((c) => c.value !== disposition);
+  const [choice, setChoice] = useState<string>(options[0]?.value ?? "");
+  const [reason, setReason] = useState("");
+  const [state, submit, pending] = useActionState<ActionResult<{ id: number; disposition: string }> | null, FormData>(async (_prev, form) => {
+    const result = await decideLotAction(form);
+    if (result.ok) setReason("");
+    return result;
+  }, null);
+  const errors = state && !state.ok ? (state.fieldErrors ?? {}) : {};
+  return (
+    <Panel title="Decide on the lot">
+      <form action={submit} className="space-y-3" noValidate>
+        <input type="hidden" name="batchId" value={batchId} />
+        <input type="hidden" name="expectedDisposition" value={disposition} />
+        <fieldset>
+          <legend className="text-sm font-medium text-ink">Decision (now: {disposition})</legend>
+          <div className="mt-1 space-y-1">
+            {options.map((c) => (
+              <label key={c.value} className="flex items-center gap-2 text-sm">
+                <input type="radio" name="disposition" value={c.value} checked={choice === c.value} onChange={() => setChoice(c.value)} />
+                {c.label}
+              </label>
+            ))}
+          </div>
+          {errors.disposition ? (
+            <p className="mt-1 text-xs font-medium text-danger" role="alert">
+              {errors.disposition.join(" ")}
+            </p>
+          ) : null}
+        </fieldset>
+        <TextAreaField
+          label="Reason"
+          name="reason"
+          required
+          rows={3}
+          value={reason}
+          onChange={(e) => setReason(e.target.value)}
+          errors={errors.reason}
+          hint="Recorded with your name, the time and the figures on this page."
+        />
+        <FormMessage state={state} success={(d) => `Recorded: the lot is ${d.disposition}.`} />
+        <Button type="submit" tone={choice === "rejected" ? "danger" : "primary"} disabled={pending || !choice}>
+          {pending ? "Recording…" : "Record the decision"}
+        </Button>
+      </form>
+    </Panel>
+  );
+}
