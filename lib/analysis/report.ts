@@ -61,6 +61,29 @@ export interface Report {
 
 const orNull = (x: number): number | null => (x === x && Number.isFinite(x) ? x : null);
 
+/**
+ * Whole-log efficiencies over complete cycles only (those with both a charge and a discharge).
+ * A log that starts by emptying a cell, as a capacity check does, would otherwise count that first
+ * discharge against no charge and report an efficiency above 100 %.
+ */
+function overallEfficiencies(cycles: readonly AnalysedCycle[]): { coulombic_efficiency: number | null; energy_efficiency: number | null } {
+  let chargedMah = 0;
+  let dischargedMah = 0;
+  let chargedWh = 0;
+  let dischargedWh = 0;
+  for (const c of cycles) {
+    if (c.coulombic_efficiency === null) continue;
+    chargedMah += c.charged_mAh;
+    dischargedMah += c.discharged_mAh;
+    chargedWh += c.charged_Wh;
+    dischargedWh += c.discharged_Wh;
+  }
+  return {
+    coulombic_efficiency: chargedMah > 0 && dischargedMah > 0 ? dischargedMah / chargedMah : null,
+    energy_efficiency: chargedWh > 0 && dischargedWh > 0 ? dischargedWh / chargedWh : null,
+  };
+}
+
 function detected(read: ReadSummaryInput | null): ReportDetected | null {
   const d = read?.detection;
   if (!d) return null;
@@ -116,8 +139,7 @@ export function assembleReport(core: AnalyzerCore, read: ReadSummaryInput | null
       charged_Wh,
       discharged_mAh,
       discharged_Wh,
-      coulombic_efficiency: charged_mAh > 0 && discharged_mAh > 0 ? discharged_mAh / charged_mAh : null,
-      energy_efficiency: charged_Wh > 0 && discharged_Wh > 0 ? discharged_Wh / charged_Wh : null,
+      ...overallEfficiencies(core.cycles),
       mean_discharge_voltage_V: discharged_mAh > 0 ? (discharged_Wh * 1000) / discharged_mAh : null,
       max_temperature_C: temp ? temp.max_C : null,
       min_temperature_C: temp ? temp.min_C : null,
