@@ -7,6 +7,7 @@ import {
   releaseClaim,
   type ClaimedRun,
 } from "@/lib/db/queries/runs";
+import { evaluateFlagsAfterAnalysis } from "@/lib/flags/evaluate";
 import { storedFileUrl } from "@/lib/uploads/storage";
 import { WorkerPool } from "./pool";
 import { analysisRows, ReportNotUnderstood } from "./report-rows";
@@ -75,6 +76,8 @@ async function processRun(runId: string): Promise<boolean> {
   try {
     const rows = analysisRows(result.report, result.series);
     const stored = await completeAnalysis(claim, { rows, columnMap: result.columnMap, engineVersion: result.engineVersion });
+    // Flag rules run on the stored analysis; a failure there must not fail the run, whose analysis is kept.
+    if (stored && !stored.requeue) await evaluateFlagsAfterAnalysis(runId).catch((error: unknown) => console.error(`Flag rules after the analysis of run ${runId} failed`, error));
     return stored?.requeue ?? false;
   } catch (error) {
     if (!(error instanceof ReportNotUnderstood)) throw error;
