@@ -1,5 +1,6 @@
 import { closeDatabase, openDatabase, installDatabaseHandle, type DatabaseHandle } from "@/lib/db/client";
 import { resetAuth } from "@/lib/auth/auth";
+import { stopOutboxSender } from "@/lib/mail/sender";
 
 /**
  * A fresh database for one test file: in-memory PGlite by default, or the PostgreSQL server named
@@ -25,5 +26,7 @@ export async function installTestDatabase(): Promise<DatabaseHandle> {
 
 export async function removeTestDatabase(): Promise<void> {
   resetAuth();
+  // The mail outbox's background sender reads the database on a timer: stop it before the database goes.
+  await stopOutboxSender();
   await closeDatabase();
 }
