@@ -1,7 +1,7 @@
 import Link from "next/link";
 import { cellClass, headersOf, SimpleTable } from "@/components/ui/simple-table";
 import type { FlagListItem } from "@/lib/db/queries/flags";
-import { cellHealthHref, flagHref } from "@/lib/flags/links";
+import { batchQualityHref, cellHealthHref, flagHref } from "@/lib/flags/links";
 import { kindTitle } from "@/lib/flags/vocabulary";
 import { formatDateTime } from "@/lib/notebook/format";
 import { FlagStateBadge } from "./flag-badges";
@@ -21,7 +21,11 @@ export function FlagTable({ flags, caption, showCell = true }: { flags: readonly
               <Link href={cellHealthHref(f.serial)} className="font-mono text-copper-dark underline-offset-2 hover:underline">
                 {f.serial}
               </Link>
-              {f.lotCode ? <span className="block text-xs text-ink-soft">{f.lotCode}</span> : null}
+              {f.lotCode && f.batchId ? (
+                <Link href={batchQualityHref(f.batchId)} className="block text-xs text-ink-soft underline-offset-2 hover:underline">
+                  {f.lotCode}
+                </Link>
+              ) : null}
             </td>
           ) : null}
           <td className={cellClass()}>

@@ -12,6 +12,7 @@ const items: NavItem[] = [
   { href: "/upload", label: "Upload", capability: "run.upload" },
   { href: "/cells", label: "Cells", capability: "registry.read" },
   { href: "/batches", label: "Batches", capability: "registry.read" },
+  { href: "/flags", label: "Flags", capability: "flag.read" },
   { href: "/cell-types", label: "Cell types", capability: "registry.read" },
   { href: "/audit", label: "Audit trail", capability: "audit.read" },
   { href: "/admin/users", label: "People", capability: "user.manage" },

@@ -18,10 +18,10 @@ afterAll(async () => {
 
 // Written out by hand: what each role should find in the main navigation.
 const expectedNav: Record<string, string[]> = {
-  technician: ["Start", "Upload", "Cells", "Batches", "Cell types"],
-  "qa-lead": ["Start", "Cells", "Batches", "Cell types", "Audit trail"],
-  engineer: ["Start", "Upload", "Cells", "Batches", "Cell types"],
-  admin: ["Start", "Upload", "Cells", "Batches", "Cell types", "Audit trail", "People"],
+  technician: ["Start", "Upload", "Cells", "Batches", "Flags", "Cell types"],
+  "qa-lead": ["Start", "Cells", "Batches", "Flags", "Cell types", "Audit trail"],
+  engineer: ["Start", "Upload", "Cells", "Batches", "Flags", "Cell types"],
+  admin: ["Start", "Upload", "Cells", "Batches", "Flags", "Cell types", "Audit trail", "People"],
 };
 
 describe("signing in as each demo role", () => {
