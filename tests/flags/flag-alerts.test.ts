@@ -17,11 +17,10 @@ import { createCell, getCellBySerial } from "@/lib/db/queries/registry";
 import { auditEvent, flag, outboxMessage, user } from "@/lib/db/schema";
 import { evaluateFlagsAfterAnalysis } from "@/lib/flags/evaluate";
 import { OutboxSender, stopOutboxSender } from "@/lib/mail/sender";
-import { storeAnalysedRun } from "../support/analysed-runs";
+import { capacityCheckOf, storeAnalysedRun } from "../support/analysed-runs";
 import { capacityCheckCsv, trapezoidTotals_mAh } from "../support/bench-logs";
 import { installTestDatabase, removeTestDatabase } from "../support/db";
 import { cellTypeWithBatch } from "../support/registry-fixtures";
-import { protocol, simulate, toCsv } from "../support/sim";
 import { signedInUser, type SignedInUser } from "../support/users";
 
 vi.mock("next/cache", () => ({ revalidatePath: vi.fn(), revalidateTag: vi.fn(), updateTag: vi.fn() }));
@@ -32,17 +31,6 @@ let engineerA: SignedInUser;
 let engineerB: SignedInUser;
 let admin: { id: string; name: string };
 let batchId: string;
-
-/**
- * A capacity check of a cell simulated with a model capacity of `capacity_mAh`, well under its
- * type's 1000 mAh rating: the project's simulator, CC-CV charge at 0.5C to 4.2 V with C/20 termination, rest, 0.5C discharge
- * to 3.0 V (the usual polymer-cell limits: common practice, no source).
- */
-function capacityCheckOf(capacity_mAh: number, seed: number): string {
-  const plan = protocol().ccCvCharge(0.5, 4.2, 0.05).rest(600).ccDischarge(0.5, 3.0).rest(300).build();
-  const { samples } = simulate(plan, { ratedCapacity_mAh: capacity_mAh, initialSoc: 0.02, logInterval_s: 10, voltageNoise_V: 0.001, currentNoise_A: 0.001, seed });
-  return toCsv(samples);
-}
 
 async function inbox(): Promise<StoredMessage[]> {
   const response = await fetch(`${fake.httpUrl}/api/messages`);

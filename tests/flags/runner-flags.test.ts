@@ -15,7 +15,7 @@ import { analysisIdle, stopAnalysis } from "@/lib/ingest/runner";
 import { OutboxSender, stopOutboxSender } from "@/lib/mail/sender";
 import { installTestDatabase, removeTestDatabase } from "../support/db";
 import { cellTypeWithBatch } from "../support/registry-fixtures";
-import { protocol, simulate, toCsv } from "../support/sim";
+import { capacityCheckOf } from "../support/analysed-runs";
 import { startUploadService, type UploadService } from "../support/upload-service";
 import { signedInUser, type SignedInUser } from "../support/users";
 import { postLog } from "../ingest/support/bench-api";
@@ -53,11 +53,8 @@ afterAll(async () => {
 
 describe("the analysis runner", () => {
   it("runs the flag rules after storing an analysis, and the engineer gets the alert", async () => {
-    // A simulated capacity check of a cell with a 650 mAh model capacity against its type's 1000 mAh rating
-    // (0.5C CC-CV to 4.2 V, C/20 end, 0.5C discharge to 3.0 V: common practice, no source).
-    const plan = protocol().ccCvCharge(0.5, 4.2, 0.05).rest(600).ccDischarge(0.5, 3.0).rest(300).build();
-    const { samples } = simulate(plan, { ratedCapacity_mAh: 650, initialSoc: 0.02, logInterval_s: 10, voltageNoise_V: 0.001, currentNoise_A: 0.001, seed: 9 });
-    const posted = await postLog({ headers: technician.headers }, { cellSerial: "KP-RUN-0001", purpose: "capacity check" }, { name: "low.csv", text: toCsv(samples) });
+    // A simulated capacity check of a cell with a 650 mAh model capacity against its type's 1000 mAh rating.
+    const posted = await postLog({ headers: technician.headers }, { cellSerial: "KP-RUN-0001", purpose: "capacity check" }, { name: "low.csv", text: capacityCheckOf(650, 9) });
     expect(posted.status).toBe(202);
     await analysisIdle();
 

@@ -5,6 +5,7 @@ import type { AuditActor } from "@/lib/db/queries/audit";
 import { claimQueuedRun, completeAnalysis, recordRun } from "@/lib/db/queries/runs";
 import { analysisRows } from "@/lib/ingest/report-rows";
 import type { RunPurpose } from "@/lib/validations/runs";
+import { protocol, simulate, toCsv } from "./sim";
 
 async function* bytes(text: string): AsyncIterable<Uint8Array> {
   yield new TextEncoder().encode(text);
@@ -48,4 +49,16 @@ export async function storeAnalysedRun(
   });
   if (!stored) throw new Error("the analysis was not stored");
   return { runId, cellId, version: stored.version };
+}
+
+/**
+ * A capacity check of a cell simulated with a model capacity of `capacity_mAh` (the test's cell
+ * type is rated 1000 mAh): the project's simulator, CC-CV charge at 0.5C to 4.2 V with C/20
+ * termination, rest, 0.5C discharge to 3.0 V (the usual polymer-cell limits: common practice, no
+ * source). The delivered capacity is read from the log by the engine, not assumed.
+ */
+export function capacityCheckOf(capacity_mAh: number, seed: number): string {
+  const plan = protocol().ccCvCharge(0.5, 4.2, 0.05).rest(600).ccDischarge(0.5, 3.0).rest(300).build();
+  const { samples } = simulate(plan, { ratedCapacity_mAh: capacity_mAh, initialSoc: 0.02, logInterval_s: 10, voltageNoise_V: 0.001, currentNoise_A: 0.001, seed });
+  return toCsv(samples);
 }
