@@ -61,7 +61,8 @@ function drawRated(u: uPlot, ratedMah: number, color: ColorOf): void {
   ctx.lineTo(bbox.left + bbox.width, y);
   ctx.stroke();
   ctx.font = `${11 * dpr}px ${getComputedStyle(document.body).fontFamily}`;
-  ctx.fillText(`rated ${ratedMah} mAh`, bbox.left + 4 * dpr, y - 4 * dpr);
+  const text = `rated ${ratedMah} mAh`;
+  ctx.fillText(text, bbox.left + bbox.width - ctx.measureText(text).width - 4 * dpr, y - 4 * dpr);
   ctx.restore();
 }
 
@@ -77,7 +78,14 @@ export function CapacityByDateChart({ x, y, ratedMah }: { x: number[]; y: number
     const pad = Math.max(1, (hi - lo) * 0.15);
     return [{ scale: "mAh", quantity: quantities.capacity, range: { min: lo - pad, max: hi + pad } }];
   }, [y, ratedMah]);
-  const xAxis = useMemo(() => ({ quantity: { label: "Upload date", unit: "date", decimals: 0 }, time: true }), []);
+  // At least two days either side of the runs, so one run (or runs minutes apart) sits inside a readable date axis.
+  const xAxis = useMemo(() => {
+    const day = 86_400;
+    const lo = Math.min(...x);
+    const hi = Math.max(...x);
+    const pad = Math.max(2 * day, (hi - lo) * 0.05);
+    return { quantity: { label: "Upload date", unit: "date", decimals: 0 }, time: true, range: { min: lo - pad, max: hi + pad } };
+  }, [x]);
   return (
     <UplotChart
       title="Delivered capacity per run, by date"

@@ -89,26 +89,34 @@ export default async function BatchPage({ params }: Params) {
             ]}
           />
         </Panel>
-        <div className={`grid gap-6 ${mayImport ? "xl:grid-cols-[1fr_24rem]" : ""}`}>
-          <section aria-labelledby="batch-cells-title" className="min-w-0">
-            <h2 id="batch-cells-title" className="mb-3 text-base font-semibold">
-              Cells of this batch
-            </h2>
-            <Suspense>
-              <BatchCellTable
-                batchId={batch.id}
-                lotCode={batch.lotCode}
-                initial={firstPage}
-                empty={
-                  mayImport
-                    ? "No cells registered yet. Import the serial list that came with the lot."
-                    : "No cells registered yet. A technician imports the lot's serial list on this page."
-                }
-              />
-            </Suspense>
-          </section>
-          {mayImport ? <SerialImport batchId={batch.id} lotCode={batch.lotCode} expected={missing > 0 ? missing : 0} /> : null}
-        </div>
+        <section aria-labelledby="batch-cells-title">
+          <h2 id="batch-cells-title" className="mb-3 text-base font-semibold">
+            Cells of this batch
+          </h2>
+          <Suspense>
+            <BatchCellTable
+              batchId={batch.id}
+              lotCode={batch.lotCode}
+              initial={firstPage}
+              empty={
+                mayImport
+                  ? "No cells registered yet. Import the serial list that came with the lot, below."
+                  : "No cells registered yet. A technician imports the lot's serial list on this page."
+              }
+            />
+          </Suspense>
+        </section>
+        {mayImport ? (
+          // Open while cells are missing; afterwards it stays out of the way of the figures.
+          <details open={missing > 0} className="no-print group">
+            <summary className="cursor-pointer text-sm font-semibold text-copper-dark">
+              {missing > 0 ? `Import the serial list (${missing} of ${batch.quantity} cells not registered)` : "Import more serials"}
+            </summary>
+            <div className="mt-3 max-w-xl">
+              <SerialImport batchId={batch.id} lotCode={batch.lotCode} expected={missing > 0 ? missing : 0} />
+            </div>
+          </details>
+        ) : null}
         <div className="space-y-6">
           <Panel title="Capacity distribution">
             {hist ? (

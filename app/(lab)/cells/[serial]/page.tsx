@@ -49,7 +49,7 @@ export default async function CellPage({ params }: Params) {
   const runs = notebook?.runs ?? [];
   const figures = notebook?.figures;
   const label = (r: { createdAt: Date; purpose: string }) => `${formatDateTime(r.createdAt)} · ${r.purpose}`;
-  const withCurve = runs.filter((r) => r.delivered !== null).map((r) => ({ runId: r.id, label: label(r) }));
+  const withCurve = runs.filter((r) => r.delivered?.afterCharge).map((r) => ({ runId: r.id, label: label(r) }));
   const initial = withCurve.slice(0, initialOverlay).map((o) => o.runId);
   const prefetched = (await Promise.all(initial.map((id) => getDischargeCurvePayload(id)))).filter((p) => p !== null);
   const byDate = capacityByDate(runs.map((r) => ({ createdAt: r.createdAt, deliveredMah: r.delivered?.afterCharge ? r.delivered.mAh : null })));

@@ -25,7 +25,7 @@ const columns: Column<BatchCellRow>[] = [
     header: "Serial",
     sortKey: "serial",
     cell: (r) => (
-      <Link href={cellHref(r.serial)} className="font-mono font-medium text-copper-dark underline-offset-2 hover:underline">
+      <Link href={cellHref(r.serial)} className="whitespace-nowrap font-mono font-medium text-copper-dark underline-offset-2 hover:underline">
         {r.serial}
       </Link>
     ),
@@ -63,7 +63,7 @@ const columns: Column<BatchCellRow>[] = [
       <span className="inline-flex flex-wrap justify-end gap-1">
         {r.openFlags ? <Badge tone="warn">{r.openFlags === 1 ? "1 open flag" : `${r.openFlags} open flags`}</Badge> : null}
         {r.safetyFindings ? <Badge tone="bad">{r.safetyFindings} safety</Badge> : null}
-        {r.findings !== null ? <span className="text-ink-soft">{r.findings} findings</span> : <span className="text-ink-soft">{missing}</span>}
+        {r.findings !== null ? <span className="whitespace-nowrap text-ink-soft">{r.findings === 1 ? "1 finding" : `${r.findings} findings`}</span> : <span className="text-ink-soft">{missing}</span>}
       </span>
     ),
   },

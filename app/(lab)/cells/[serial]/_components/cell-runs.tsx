@@ -36,9 +36,18 @@ export function CellRuns({ runs, serial }: { runs: CellRunEntry[]; serial: strin
             </td>
             <td className={cellClass(true)}>{cycle ? formatMah(cycle.chargedMah) : formatMah(r.chargedMah)}</td>
             <td className={cellClass(true)}>
-              {r.delivered ? formatMah(r.delivered.mAh) : missing}
-              {r.delivered && !r.delivered.afterCharge ? <span className="block text-xs text-ink-soft">no charge before it</span> : null}
-              {r.delivered ? <span className="block text-xs text-ink-soft">cycle {r.delivered.cycle}</span> : null}
+              {/* A discharge without a charge before it (a pulse test, a log from an unknown state) is no capacity. */}
+              {r.delivered?.afterCharge ? (
+                <>
+                  {formatMah(r.delivered.mAh)}
+                  <span className="block text-xs text-ink-soft">cycle {r.delivered.cycle}</span>
+                </>
+              ) : (
+                <>
+                  {missing}
+                  {r.latestVersion !== null ? <span className="block text-xs text-ink-soft">no full cycle</span> : null}
+                </>
+              )}
             </td>
             <td className={cellClass(true)}>{r.switchVoltageV !== null ? formatVolts(r.switchVoltageV) : missing}</td>
             <td className={cellClass(true)}>{r.delivered?.afterCharge ? formatPercent(r.delivered.coulombicEfficiency, 2) : missing}</td>
