@@ -174,8 +174,18 @@ export class OutboxSender {
 const senderKey = Symbol.for("kneepoint.outbox-sender");
 const store = ((globalThis as Record<symbol, unknown>)[senderKey] ??= {}) as { sender?: OutboxSender };
 
-/** The process's sender, started on first use. */
-export function ensureOutboxSender(): OutboxSender {
+/**
+ * The background sender belongs to the web server (Next.js sets NEXT_RUNTIME there). Command-line
+ * processes (the demo seed in `npm start`, scripts) and tests leave mail in the outbox: a loop in
+ * them could outlive their database handle, and the server sends the mail on its first use.
+ */
+function isWebServer(): boolean {
+  return Boolean(process.env.NEXT_RUNTIME);
+}
+
+/** The web server's sender, started on first use; null in other processes. */
+export function ensureOutboxSender(): OutboxSender | null {
+  if (!isWebServer()) return null;
   if (!store.sender) {
     store.sender = new OutboxSender();
     store.sender.start();
@@ -183,9 +193,9 @@ export function ensureOutboxSender(): OutboxSender {
   return store.sender;
 }
 
-/** Wakes the process's sender (starting it if needed) after mail was queued. */
+/** Wakes the web server's sender (starting it if needed) after mail was queued. */
 export function kickOutbox(): void {
-  ensureOutboxSender().kick();
+  ensureOutboxSender()?.kick();
 }
 
 /** Stops the process's sender (tests and shutdown); the next use starts a fresh one. */

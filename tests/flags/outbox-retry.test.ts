@@ -137,4 +137,15 @@ describe("the outbox while the mail server is down", () => {
     expect(await received("Never delivered")).toEqual([]);
     await s.stop();
   });
+
+  it("sends from its background loop once kicked, without anyone calling a pass", async () => {
+    await queue("Sent by the loop");
+    const loop = new OutboxSender({ smtpUrl: `smtp://127.0.0.1:${fake.smtpPort}`, digest: false, baseUrl: "http://localhost:3000" });
+    loop.kick();
+    // Wait for the loop's pass (bounded); what is checked is the outcome, not how long it took.
+    for (let i = 0; i < 200 && (await row("Sent by the loop")).status !== "sent"; i++) await new Promise((resolve) => setTimeout(resolve, 25));
+    await loop.stop();
+    expect(await row("Sent by the loop")).toMatchObject({ status: "sent", attempts: 1 });
+    expect(await received("Sent by the loop")).toHaveLength(1);
+  });
 });

@@ -17,6 +17,7 @@ import { histogramBars } from "@/lib/charts/histogram-bars";
 import { flagsOf } from "@/lib/db/queries/flags";
 import { getBatchQuality, listLotDecisions, type BatchQuality } from "@/lib/db/queries/quality";
 import { batchCompareHref, batchQualityHref, cellHealthHref } from "@/lib/flags/links";
+import { ensureOutboxSender } from "@/lib/mail/sender";
 import { formatDateTime, formatMah, formatMilliohm, formatNumber } from "@/lib/notebook/format";
 import { formatCapacitySpec } from "@/lib/registry/format";
 import { batchHref } from "@/lib/registry/links";
@@ -181,6 +182,7 @@ function MatchedSets({ q, batchId, match }: { q: BatchQuality; batchId: string; 
 export default async function BatchQualityPage(props: Props) {
   const [{ quality: q, match }, user] = await Promise.all([load(props), currentUser()]);
   if (!q) notFound();
+  ensureOutboxSender();
   const batchId = q.batch.id;
   const [flags, decisions] = await Promise.all([flagsOf({ batchId, unclosedOnly: true }), listLotDecisions(batchId)]);
   const bars = q.report.histogram ? histogramBars(q.report.histogram) : null;
