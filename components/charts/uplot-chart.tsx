@@ -305,13 +305,16 @@ export function UplotChart({ title, summary, x, yAxes, series, data, height = 30
           ? "Point at the chart, or focus it and use the arrow keys, to read values."
           : "Drag across the chart to zoom in; double-click or Reset zoom to see it all. Focused: arrow keys move the read-out, + and − zoom, Esc resets."}
       </p>
-      <output aria-live={keyboard ? "polite" : "off"} className="mt-1 block min-h-5 text-xs tabular-nums text-ink">
+      <output aria-live={keyboard ? "polite" : "off"} className="no-print mt-1 block min-h-5 text-xs tabular-nums text-ink">
         {reading ? (
           <>
             <span className="font-semibold">{x.quantity.label}</span> {reading.x}
             {series.map((s, i) =>
               shown[i] && reading.values[i] ? (
-                <span key={s.label} className="ml-3">
+                <span key={s.label}>
+                  <span aria-hidden="true" className="px-1.5 text-ink-soft">
+                    ·
+                  </span>
                   <span className="font-semibold">{s.label}</span> {reading.values[i]}
                 </span>
               ) : null,

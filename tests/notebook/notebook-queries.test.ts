@@ -15,6 +15,7 @@ import { getRunDetail } from "@/lib/db/queries/run-views";
 import type { BatchCellRow, Page } from "@/lib/notebook/batch-rows";
 import { storeAnalysedRun } from "../support/analysed-runs";
 import { capacityCheckCsv } from "../support/bench-logs";
+import { protocol, simulate, toCsv } from "../support/sim";
 import { installTestDatabase, removeTestDatabase } from "../support/db";
 import { cellTypeWithBatch } from "../support/registry-fixtures";
 import { signedInUser, type SignedInUser } from "../support/users";
@@ -39,13 +40,16 @@ beforeAll(async () => {
   tech = await signedInUser("technician");
   const actor = { id: tech.id, name: "Tech" };
   ({ batchId } = await cellTypeWithBatch(actor, "LOT-NB"));
-  for (const serial of ["NB-0001", "NB-0002", "NB-0003", "NB-0004"]) await createCell({ serial, batchId }, actor);
+  for (const serial of ["NB-0001", "NB-0002", "NB-0003", "NB-0004", "NB-0005"]) await createCell({ serial, batchId }, actor);
   runs.a = (await storeAnalysedRun(actor, { serial: "NB-0001", csv: capacityCheckCsv(11), purpose: "capacity check" })).runId;
   runs.bOld = (await storeAnalysedRun(actor, { serial: "NB-0002", csv: capacityCheckCsv(12), purpose: "capacity check" })).runId;
   runs.bNew = (await storeAnalysedRun(actor, { serial: "NB-0002", csv: capacityCheckCsv(13), purpose: "capacity check" })).runId;
   // The demo's invented resistance test: 0.2 It for 10 s, then 1 It for 1 s (IEC 61960-3 §7.7 sequence).
   const pulse = fs.readFileSync(path.join(process.cwd(), "public/demo-logs/PA-0003-internal-resistance.csv"), "utf8");
   runs.d = (await storeAnalysedRun(actor, { serial: "NB-0004", csv: pulse, purpose: "internal resistance" })).runId;
+  // Charged to 4.35 V on a type limited to 4.2 V (4.2 V: common practice for polymer cells): an over-voltage finding.
+  const over = simulate(protocol().ccCvCharge(0.5, 4.35, 0.05).rest(600).ccDischarge(0.5, 3.0).build(), { ratedCapacity_mAh: 1000, initialSoc: 0.02, logInterval_s: 10, seed: 5 });
+  runs.e = (await storeAnalysedRun(actor, { serial: "NB-0005", csv: toCsv(over.samples), purpose: "capacity check" })).runId;
 });
 afterAll(removeTestDatabase);
 
@@ -66,6 +70,8 @@ describe("batch cell rows", () => {
     // The newer of two runs stands for the cell.
     expect(bySerial.get("NB-0002")).toMatchObject({ runs: 2, deliveredMah: b.mAh, deliveredRunId: runs.bNew });
     expect(bySerial.get("NB-0003")).toMatchObject({ runs: 0, deliveredMah: null, sohPercent: null, dcirMohm: null, lastTestedAt: null });
+    expect(bySerial.get("NB-0001")?.safetyFindings).toBe(0);
+    expect(bySerial.get("NB-0005")?.safetyFindings ?? 0).toBeGreaterThanOrEqual(1);
     // A pulse test has resistance but no capacity.
     expect(bySerial.get("NB-0004")).toMatchObject({ runs: 1, deliveredMah: null, dcirMethod: "IEC 61960-3 DC" });
   });
@@ -86,12 +92,12 @@ describe("batch cell rows", () => {
     const desc = await call<Page<BatchCellRow>>(batchCells, `/api/batches/${batchId}/cells?sort=capacity&dir=desc`, { batchId });
     expect(desc.status).toBe(200);
     const caps = desc.body.items.map((r) => r.deliveredMah);
-    expect(caps.slice(0, 2).every((c) => c !== null)).toBe(true);
-    expect((caps[0] ?? 0) >= (caps[1] ?? 0)).toBe(true);
-    expect(caps.slice(2)).toEqual([null, null]);
+    expect(caps.slice(0, 3).every((c) => c !== null)).toBe(true);
+    expect((caps[0] ?? 0) >= (caps[1] ?? 0) && (caps[1] ?? 0) >= (caps[2] ?? 0)).toBe(true);
+    expect(caps.slice(3)).toEqual([null, null]);
     const asc = await call<Page<BatchCellRow>>(batchCells, `/api/batches/${batchId}/cells?sort=capacity&dir=asc&pageSize=1&page=2`, { batchId });
-    expect(asc.body).toMatchObject({ total: 4, page: 2, pageSize: 1 });
-    expect(asc.body.items[0]?.deliveredMah).toBe(caps[0]);
+    expect(asc.body).toMatchObject({ total: 5, page: 2, pageSize: 1 });
+    expect(asc.body.items[0]?.deliveredMah).toBe(caps[1]);
     const untested = await call<Page<BatchCellRow>>(batchCells, `/api/batches/${batchId}/cells?tested=untested&q=nb-000`, { batchId });
     expect(untested.body.items.map((r) => r.serial)).toEqual(["NB-0003", "NB-0004"]);
     expect((await call(batchCells, "/api/batches/x/cells", { batchId: "not-a-uuid" })).status).toBe(404);
@@ -106,7 +112,7 @@ describe("batch cell rows", () => {
     expect(lines[0]).toBe(
       'Serial,Status,Runs (count),"Last tested at (UTC, ISO 8601)",Delivered capacity (mAh),SOH against rated capacity (%),DC resistance (mOhm),DC resistance method,Coulombic efficiency (%),Findings in the latest run (count),Safety findings in the latest run (count),Open flags (count)',
     );
-    expect(lines).toHaveLength(3);
+    expect(lines).toHaveLength(4);
     const a = await storedDelivered(runs.a as string);
     expect(lines[1]?.split(",")[4]).toBe(String(a.mAh));
   });

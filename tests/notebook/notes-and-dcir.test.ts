@@ -41,3 +41,15 @@ describe("summariseDcir", () => {
     expect(summariseDcir([{ method: "IEC 61960-3 DC", resistance_mOhm: null }])).toBeNull();
   });
 });
+
+describe("isSafetyFinding", () => {
+  it("counts limit violations and anything rated dangerous, not a charge that stopped early", async () => {
+    const { isSafetyFinding } = await import("@/lib/notebook/findings");
+    // 4.2 V is the usual charge limit for polymer cells (common practice, no source): going past it is a limit finding.
+    expect(isSafetyFinding({ kind: "over-voltage", severity: "danger" })).toBe(true);
+    expect(isSafetyFinding({ kind: "charge-temperature", severity: "warning" })).toBe(true);
+    expect(isSafetyFinding({ kind: "cv-not-terminated", severity: "warning" })).toBe(false);
+    expect(isSafetyFinding({ kind: "logging-gap", severity: "danger" })).toBe(true);
+    expect(isSafetyFinding({ kind: "logging-gap", severity: "info" })).toBe(false);
+  });
+});

@@ -7,10 +7,11 @@ import { unclosedFlagStates } from "@/lib/flags/vocabulary";
 import { AppError } from "@/lib/http/errors";
 import { batchCellRow, type BatchCellRow } from "@/lib/notebook/batch-rows";
 import { cellFigures, type CellFigures, type RunFigures } from "@/lib/notebook/cell-figures";
+import { limitKinds } from "@/lib/notebook/findings";
 import type { NoteEntry } from "@/lib/notebook/notes";
 import type { AddRunNoteInput } from "@/lib/validations/notebook";
 import { getDb, type Executor } from "../client";
-import { analysisVersion, batch, cell, cellType, flag, plotSeries, run, runCycle, runNote } from "../schema";
+import { analysisVersion, batch, cell, cellType, flag, plotSeries, run, runCycle, runFinding, runNote } from "../schema";
 import { recordAudit, type AuditActor } from "./audit";
 import { getRunDetail, getRunHeader, listRunsOfCell, type RunDetail, type RunListItem } from "./run-views";
 
@@ -25,6 +26,9 @@ const latestAnalysis = and(eq(analysisVersion.runId, run.id), eq(analysisVersion
 // The report keeps every resistance measurement; these pull out just the values, by method, in SQL.
 const dcirValues = (method: string) =>
   sql<number[] | null>`jsonb_path_query_array(${analysisVersion.report}, ${`$.dcir[*] ? (@.method == "${method}").resistance_mOhm`}::jsonpath)`;
+
+// Safety findings as the notebook counts them (lib/notebook/findings.ts), of the latest analysis.
+const safetyCount = sql<number | null>`(select count(*)::int from ${runFinding} where ${runFinding.analysisId} = ${analysisVersion.id} and (${runFinding.severity} = 'danger' or ${inArray(runFinding.kind, [...limitKinds])}))`;
 
 /* ---------------------------------- the run page ---------------------------------- */
 
@@ -115,7 +119,7 @@ async function runFiguresOfCells(cellIds: string[]): Promise<RunFigureRow[]> {
       createdAt: run.createdAt,
       analysisId: analysisVersion.id,
       findingsCount: analysisVersion.findingsCount,
-      safetyFindingsCount: analysisVersion.safetyFindingsCount,
+      safetyFindingsCount: safetyCount,
       dcirIec: dcirValues("IEC 61960-3 DC"),
       dcirEdge: dcirValues("step-edge"),
     })
@@ -223,6 +227,8 @@ export async function getCellNotebook(serial: string): Promise<CellNotebook | nu
       const f = figuresOf.get(r.id);
       return {
         ...r,
+        // The notebook's own count (limits and danger), not every finding that carries a caution.
+        safetyFindingsCount: f ? f.safetyFindingsCount : r.safetyFindingsCount,
         cycles: f?.cycles ?? [],
         delivered: f ? deliveredCapacity(f.cycles) : null,
         dcir: { iec: f?.dcirIecMohm ?? [], edge: f?.dcirEdgeMohm ?? [] },
