@@ -23,14 +23,19 @@ export interface AppServer {
   stop(signal?: NodeJS.Signals): Promise<number | null>;
 }
 
+export function newDataRoot(): string {
+  return fs.mkdtempSync(path.join(os.tmpdir(), "kneepoint-e2e-"));
+}
+
 /**
  * Starts the app exactly as the README's start command does (`npm start`: local services, seed,
- * the built server), on free ports and a fresh data directory.
+ * the built server), on free ports and a fresh data directory, or on `options.dataRoot` to
+ * restart on the data a previous server left.
  */
-export async function startAppServer(extraEnv: Record<string, string> = {}): Promise<AppServer> {
+export async function startAppServer(extraEnv: Record<string, string> = {}, options: { dataRoot?: string } = {}): Promise<AppServer> {
   const port = await freePort();
   const fakePorts = { FAKE_UPLOAD_PORT: String(await freePort()), FAKE_SMTP_PORT: String(await freePort()), FAKE_SMTP_HTTP_PORT: String(await freePort()) };
-  const dataRoot = fs.mkdtempSync(path.join(os.tmpdir(), "kneepoint-e2e-"));
+  const dataRoot = options.dataRoot ?? newDataRoot();
   const url = `http://localhost:${port}`;
   let log = "";
   const child = spawn(process.execPath, [path.join("node_modules", "tsx", "dist", "cli.mjs"), "--conditions=react-server", "lib/cli/start.ts"], {
