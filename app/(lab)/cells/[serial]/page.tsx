@@ -48,7 +48,8 @@ export default async function CellPage({ params }: Params) {
   const [type, notebook] = await Promise.all([getCellType(cell.cellTypeId), getCellNotebook(cell.serial)]);
   const runs = notebook?.runs ?? [];
   const figures = notebook?.figures;
-  const label = (r: { createdAt: Date; purpose: string }) => `${formatDateTime(r.createdAt)} · ${r.purpose}`;
+  // The file name tells apart runs uploaded in the same minute.
+  const label = (r: { createdAt: Date; purpose: string; fileName: string }) => `${formatDateTime(r.createdAt)} · ${r.purpose} · ${r.fileName}`;
   const withCurve = runs.filter((r) => r.delivered?.afterCharge).map((r) => ({ runId: r.id, label: label(r) }));
   const initial = withCurve.slice(0, initialOverlay).map((o) => o.runId);
   const prefetched = (await Promise.all(initial.map((id) => getDischargeCurvePayload(id)))).filter((p) => p !== null);
