@@ -23,7 +23,8 @@ const cvEndCurrent = 0.05;
 const restSeconds = 600;
 
 function ocv(soc: number): number {
-  return 3.0 + 1.1 * soc + 0.1 * Math.tanh((soc - 0.1) * 12) * (1 - soc);
+  // Reaches the 4.2 V limit (with the IR rise) before full, so the log cycles: CC, CV, rest, discharge.
+  return 3.0 + 1.2 * soc + 0.1 * Math.tanh((soc - 0.1) * 12) * (1 - soc);
 }
 
 type Phase = "cc-charge" | "cv" | "rest-after-charge" | "discharge" | "rest-after-discharge";

@@ -87,7 +87,8 @@ describe("kill -9 of the server during an analysis, then a restart on the same d
 
   it("catches a large log while it is being analysed and kills the server there", async () => {
     if (!app) throw new Error("no server");
-    log = await writeLog(join(logDir, "large.csv"), 1_000_000);
+    // About 45 MB: its analysis lasts long enough (seconds) for the 20 ms polling below to see it under way.
+    log = await writeLog(join(logDir, "large.csv"), 2_000_000);
     const answer = await client.post({ cellSerial: serials[2] ?? "", purpose: "cycle life" }, await openAsBlob(log.path, { type: "text/csv" }), "large.csv");
     expect(answer.status).toBe(202);
     interrupted = await client.waitFor(answer.run?.id ?? "", (r) => r.status !== "queued", 60_000, 20);
