@@ -28,7 +28,7 @@ function demoRuns(): DemoRun[] {
       runs.push({ file: path.join(lot, file), serial, purpose: "capacity check", note: "Demo data (invented): incoming capacity check, 0.2C discharge after a CC-CV charge." });
     }
   }
-  runs.push({ file: "PB-0019-cycle-life.tsv", serial: "PB-0019", purpose: "cycle life", note: "Demo data (invented): 60 cycles at 1C." });
+  runs.push({ file: "PB-0019-cycle-life.tsv", serial: "PB-0019", purpose: "cycle life", note: "Demo data (invented): 75 cycles at 1C." });
   runs.push({ file: "PA-0003-internal-resistance.csv", serial: "PA-0003", purpose: "internal resistance", note: "Demo data (invented): 0.2 It for 10 s, then 1 It for 1 s." });
   return runs;
 }

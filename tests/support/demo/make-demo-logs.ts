@@ -79,9 +79,9 @@ function main(): void {
   writeLog("PB-0007-capacity-check.csv", germanStyle(capacityCheck(7, demoCapacityFactors["PB-0007"] ?? 1, 10), "PB-0007"));
   writeLog("PB-0012-capacity-check.csv", plainStyle(capacityCheck(12, demoCapacityFactors["PB-0012"] ?? 1, 10)));
 
-  // A cycle-life test of a cell that fades fast: 1C charge and discharge, 0.4 % of rated lost per cycle.
+  // A cycle-life test of a cell that fades fast: 1C charge and discharge, 0.4 % of rated lost per cycle, past the 80 % end of life.
   const life = protocol()
-    .repeat(60, (b) => b.ccCvCharge(1, 4.2, 0.05).rest(600).ccDischarge(1, 3.0).rest(600))
+    .repeat(75, (b) => b.ccCvCharge(1, 4.2, 0.05).rest(600).ccDischarge(1, 3.0).rest(600))
     .build();
   const fading = simulate(life, { ratedCapacity_mAh: 1000, initialSoc: 0.02, fadePerCycle: 0.004, logInterval_s: 30, voltageNoise_V: 0.002, currentNoise_A: 0.003, seed: 19 });
   writeLog(`${demoFadingSerial}-cycle-life.tsv`, cyclerStyle(fading.samples));
