@@ -67,35 +67,46 @@ export interface Marker {
   label: string;
 }
 
-/** Dashed vertical lines with a label at the top, and a ringed point where `y` is given. */
+/**
+ * Dashed vertical lines with a label at the top, and a ringed point where `y` is given. When
+ * markers crowd (a cycle-life log has one switch per cycle), lines are left out and only labels
+ * that fit are written, so the points stay readable.
+ */
 export function drawMarkers(u: uPlot, markers: readonly Marker[], scale: string, token: ColorToken, color: ColorOf): void {
   const dpr = typeof devicePixelRatio === "number" ? devicePixelRatio : 1;
+  const xs = markers.map((m) => u.valToPos(m.x, "x", true)).filter((x) => x >= u.bbox.left && x <= u.bbox.left + u.bbox.width);
+  const crowded = xs.length > 1 && (Math.max(...xs) - Math.min(...xs)) / (xs.length - 1) < 24 * dpr;
   clipped(u, (ctx) => {
     ctx.strokeStyle = color(token);
-    ctx.fillStyle = color(token);
     ctx.lineWidth = 1.5 * dpr;
     ctx.font = `600 ${11 * dpr}px ${getComputedStyle(document.body).fontFamily}`;
+    let labelEnd = -Infinity;
     for (const m of markers) {
       const x = u.valToPos(m.x, "x", true);
-      ctx.setLineDash([5 * dpr, 3 * dpr]);
-      ctx.beginPath();
-      ctx.moveTo(x, u.bbox.top);
-      ctx.lineTo(x, u.bbox.top + u.bbox.height);
-      ctx.stroke();
-      ctx.setLineDash([]);
+      if (!crowded) {
+        ctx.setLineDash([5 * dpr, 3 * dpr]);
+        ctx.beginPath();
+        ctx.moveTo(x, u.bbox.top);
+        ctx.lineTo(x, u.bbox.top + u.bbox.height);
+        ctx.stroke();
+        ctx.setLineDash([]);
+      }
       if (m.y !== null && m.y !== undefined && Number.isFinite(m.y)) {
         const y = u.valToPos(m.y, scale, true);
         ctx.beginPath();
-        ctx.arc(x, y, 4.5 * dpr, 0, 2 * Math.PI);
+        ctx.arc(x, y, (crowded ? 3 : 4.5) * dpr, 0, 2 * Math.PI);
         ctx.fillStyle = color("sheet");
         ctx.fill();
         ctx.stroke();
-        ctx.fillStyle = color(token);
       }
-      // Labels sit right of the line, or left of it near the right edge.
+      // Labels sit right of the line, or left of it near the right edge; one that would overlap the last is skipped.
       const width = ctx.measureText(m.label).width;
       const right = x + 4 * dpr + width < u.bbox.left + u.bbox.width;
-      ctx.fillText(m.label, right ? x + 4 * dpr : x - 4 * dpr - width, u.bbox.top + 12 * dpr);
+      const start = right ? x + 4 * dpr : x - 4 * dpr - width;
+      if (start < labelEnd + 6 * dpr) continue;
+      ctx.fillStyle = color(token);
+      ctx.fillText(m.label, start, u.bbox.top + 12 * dpr);
+      labelEnd = start + width;
     }
   });
 }
