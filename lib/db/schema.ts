@@ -3,6 +3,7 @@ import {
   type AnyPgColumn,
   bigint,
   boolean,
+  check,
   date,
   doublePrecision,
   index,
@@ -419,26 +420,30 @@ export type RunNoteRow = typeof runNote.$inferSelect;
  * Flags, alerts and lot decisions.
  * ---------------------------------------------------------------------------------------- */
 
-export const flagRuleKind = pgEnum("flag_rule_kind", flagRuleKinds);
 export const flagState = pgEnum("flag_state", flagStates);
 export const outboxStatus = pgEnum("outbox_status", ["pending", "sent", "failed"]);
 
 /**
  * A rule engineers configure. `bound` is in the unit the kind names (percent for state of health,
- * coulombic efficiency and resistance rise; the test level α for the fade outlier); a null bound on
+ * fade rate, coulombic efficiency and resistance rise; the test level α for the fade outlier); a null bound on
  * the state-of-health rule means the lab's end-of-life threshold setting.
  */
-export const flagRule = pgTable("flag_rule", {
-  id: uuid("id").primaryKey().defaultRandom(),
-  kind: flagRuleKind("kind").notNull(),
-  bound: doublePrecision("bound"),
-  enabled: boolean("enabled").notNull().default(true),
-  note: text("note").notNull().default(""),
-  createdBy: text("created_by").references(() => user.id, { onDelete: "set null" }),
-  createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
-  updatedBy: text("updated_by").references(() => user.id, { onDelete: "set null" }),
-  updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
-});
+export const flagRule = pgTable(
+  "flag_rule",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    // Text with a check rather than an enum: a new kind then needs no ALTER TYPE, which cannot be used in the migration that adds it.
+    kind: text("kind", { enum: flagRuleKinds }).notNull(),
+    bound: doublePrecision("bound"),
+    enabled: boolean("enabled").notNull().default(true),
+    note: text("note").notNull().default(""),
+    createdBy: text("created_by").references(() => user.id, { onDelete: "set null" }),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    updatedBy: text("updated_by").references(() => user.id, { onDelete: "set null" }),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [check("flag_rule_kind_known", sql`${t.kind} in (${sql.raw(flagRuleKinds.map((k) => `'${k}'`).join(", "))})`)],
+);
 
 /** A flag on one cell: opened by a rule on some evidence (an analysis), or raised by hand with a reason. */
 export const flag = pgTable(

@@ -53,6 +53,29 @@ function sohCandidate(rule: RuleInput, c: CellInput, eolPct: number): FlagCandid
   };
 }
 
+function fadeRateCandidate(rule: RuleInput, c: CellInput, eolPct: number): FlagCandidate | null {
+  const f = cellFade(c.measurements.capacity, c.ratedCapacityMah, eolPct);
+  if (!f || !f.fade.byCycle.ok || rule.bound === null) return null;
+  const rate = f.fade.byCycle.lossPer100Cycles_pctRated;
+  // Only a fade the data are sure of: the whole 95 % interval of the slope shows capacity falling.
+  if (!(rate.value > rule.bound) || !(rate.low > 0)) return null;
+  const latest = c.measurements.capacity[c.measurements.capacity.length - 1];
+  if (!latest) return null;
+  const eol = f.fade.byCycle.eol;
+  const projection = eol.ok ? `; end of life projected at cycle ${eol.cycle.toFixed(0)}` : "";
+  return {
+    ruleId: rule.id,
+    kind: rule.kind,
+    cellId: c.id,
+    evidenceAnalysisId: latest.analysisId,
+    summary: `Losing ${rate.value.toFixed(2)} % of rated capacity per 100 cycles (95 % interval ${rate.low.toFixed(2)} to ${rate.high.toFixed(2)}, ${f.fade.byCycle.n} points), above ${rule.bound} %${projection}`,
+    value: rate.value,
+    bound: rule.bound,
+    unit: "% per 100 cycles",
+    detail: { low: rate.low, high: rate.high, n: f.fade.byCycle.n, eolCycle: eol.ok ? eol.cycle : null, latestCycle: latest.cycle },
+  };
+}
+
 function ceCandidate(rule: RuleInput, c: CellInput): FlagCandidate | null {
   const runs = c.measurements.efficiency.filter((e) => e.purpose !== "formation");
   const latest = runs[runs.length - 1];
@@ -154,6 +177,8 @@ export function evaluateRule(rule: RuleInput, cells: readonly CellInput[], eolTh
   switch (rule.kind) {
     case "soh-below":
       return live.flatMap((c) => sohCandidate(rule, c, eolThresholdPct) ?? []);
+    case "fade-rate-above":
+      return live.flatMap((c) => fadeRateCandidate(rule, c, eolThresholdPct) ?? []);
     case "ce-below":
       return live.flatMap((c) => ceCandidate(rule, c) ?? []);
     case "dcir-rise":

@@ -3,7 +3,7 @@
  * anywhere (no server code).
  */
 
-export const flagRuleKinds = ["soh-below", "fade-outlier", "ce-below", "dcir-rise", "safety-danger"] as const;
+export const flagRuleKinds = ["soh-below", "fade-rate-above", "fade-outlier", "ce-below", "dcir-rise", "safety-danger"] as const;
 export type FlagRuleKind = (typeof flagRuleKinds)[number];
 
 /** A flag's states in plain words. The last two close a flag. */
@@ -70,6 +70,16 @@ export const ruleKindInfo: Record<FlagRuleKind, RuleKindInfo> = {
     explanation:
       "The cell's latest capacity measurement divided by its type's rated capacity. Leave the bound blank to use the lab's end-of-life threshold.",
   },
+  "fade-rate-above": {
+    title: "Fading faster than a bound",
+    boundLabel: "Capacity lost per 100 cycles above (% of rated)",
+    unit: "%",
+    defaultBound: 10,
+    boundRange: { min: 0.1, max: 100 },
+    boundOptional: false,
+    explanation:
+      "The cell's fade rate: the least-squares slope of capacity on cycle over all its capacity points, as % of rated capacity per 100 cycles (needs at least 3 points, and a slope whose 95 % interval lies wholly above zero). At 10 % a cell would lose 20 % of its rating, the usual end of life, in about 200 cycles.",
+  },
   "fade-outlier": {
     title: "Fade rate unusual within its batch",
     boundLabel: "Grubbs test level α",
@@ -118,6 +128,8 @@ export function describeRule(kind: FlagRuleKind, bound: number | null, eolThresh
       return bound === null
         ? `State of health below the end-of-life threshold (${formatNumber(eolThresholdPct)} %)`
         : `State of health below ${formatNumber(bound)} %`;
+    case "fade-rate-above":
+      return `Fading faster than ${formatNumber(bound ?? 0)} % of rated per 100 cycles`;
     case "fade-outlier":
       return `Fade rate unusual within its batch (Grubbs, α = ${formatNumber(bound ?? 0.05)})`;
     case "ce-below":

@@ -83,6 +83,23 @@ describe("flag rules", () => {
     expect(evaluateRule(soh, [{ ...worn, status: "retired" }], 80)).toEqual([]);
   });
 
+  it("flags a cell fading faster than the bound, when the slope's interval is wholly above zero", () => {
+    const rule = { id: "r-rate", kind: "fade-rate-above" as const, bound: 10 };
+    // Q_n = 1000 − 1.5·n plus a small alternating wobble: least squares gives 1.5 mAh per cycle to within the wobble,
+    // 150 mAh per 100 cycles = 15 % of the 1000 mAh rating.
+    const cycles = Array.from({ length: 20 }, (_, n) => full(n + 1, 1000 - 1.5 * (n + 1) + (n % 2 ? 0.5 : -0.5)));
+    const [flag, ...rest] = evaluateRule(rule, [cellOf("fast", [runOf("life", "cycle life", 0, cycles)])], 80);
+    expect(rest).toEqual([]);
+    expect(flag?.value).toBeCloseTo(15, 0);
+    expect(flag).toMatchObject({ cellId: "fast", bound: 10, unit: "% per 100 cycles", evidenceAnalysisId: "a-life" });
+    // End of life at 800 mAh: 1000 − 1.5·n = 800 at n ≈ 133.
+    expect(flag?.summary).toMatch(/end of life projected at cycle 13[2-4]/);
+    const slow = Array.from({ length: 20 }, (_, n) => full(n + 1, 1000 - 0.5 * (n + 1)));
+    expect(evaluateRule(rule, [cellOf("slow", [runOf("life2", "cycle life", 0, slow)])], 80)).toEqual([]);
+    // Two points give no trend at all; nothing is flagged on them.
+    expect(evaluateRule(rule, [cellOf("short", [runOf("life3", "cycle life", 0, cycles.slice(0, 2))])], 80)).toEqual([]);
+  });
+
   it("flags coulombic efficiency below the bound in the latest run, formation runs left out", () => {
     const rule = { id: "r-ce", kind: "ce-below" as const, bound: 98 };
     const formed = cellOf("a", [runOf("l1", "cycle life", 0, [full(1, 950, 0.995), full(2, 948, 0.975)]), runOf("f1", "formation", 3, [full(1, 900, 0.8)])]);

@@ -2,7 +2,7 @@ import "server-only";
 import { and, asc, count, desc, eq, ilike, inArray, ne, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { AppError } from "@/lib/http/errors";
-import { byHandKind, canStep, describeRule, isClosed, unclosedFlagStates, type FlagRuleKind, type FlagState } from "@/lib/flags/vocabulary";
+import { byHandKind, canStep, describeRule, flagRuleKinds, isClosed, unclosedFlagStates, type FlagRuleKind, type FlagState } from "@/lib/flags/vocabulary";
 import { flagAlert } from "@/lib/mail/flag-alert";
 import type { CreateRuleInput, FlagListQuery, LabSettingsInput, RaiseFlagInput, TransitionFlagInput, UpdateRuleInput } from "@/lib/validations/flags";
 import { getDb, type Executor, type Transaction } from "../client";
@@ -126,8 +126,12 @@ export async function listRules(): Promise<FlagRuleView[]> {
     .from(flagRule)
     .leftJoin(user, eq(user.id, flagRule.updatedBy))
     .leftJoin(unclosed, eq(unclosed.ruleId, flagRule.id))
-    .orderBy(asc(flagRule.kind), asc(flagRule.createdAt));
-  return rows.map((r) => ({ ...r, description: describeRule(r.kind, r.bound, settings.eolThresholdPct) }));
+    .orderBy(asc(flagRule.createdAt));
+  // The vocabulary's order, which reads from the cell's own health to its batch and safety.
+  const rank = (kind: FlagRuleKind) => flagRuleKinds.indexOf(kind);
+  return rows
+    .sort((a, b) => rank(a.kind) - rank(b.kind))
+    .map((r) => ({ ...r, description: describeRule(r.kind, r.bound, settings.eolThresholdPct) }));
 }
 
 export interface EnabledRule {
