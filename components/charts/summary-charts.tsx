@@ -138,7 +138,7 @@ export function CapacityHistogramChart({ bars }: { bars: HistogramBars }) {
   const n = bars.counts.reduce((a, b) => a + b, 0);
   return (
     <UplotChart
-      title="Delivered capacity of the batch's cells"
+      title="Latest delivered capacity of the batch's cells"
       summary={`${n} cell${n === 1 ? "" : "s"} in bins of ${bars.binWidth.toFixed(1)} mAh${bars.lsl !== null ? `; lower spec limit ${bars.lsl} mAh` : ""}${bars.usl !== null ? `, upper ${bars.usl} mAh` : ""}.`}
       x={x}
       yAxes={yAxes}

@@ -134,15 +134,15 @@ describe("the notebook pages for an uploaded demo log", () => {
     expect(await table.locator("tbody tr").first().innerText()).toContain("PB-0007");
     await page.getByLabel("Search serial").fill("");
     await page.waitForFunction(() => document.querySelectorAll("table tbody tr").length === 24);
-    await table.getByRole("button", { name: /Delivered capacity/ }).click();
+    await table.getByRole("button", { name: /Latest delivered capacity/ }).click();
     await page.waitForURL(/sort=capacity/);
-    await table.locator("thead th[aria-sort=ascending]", { hasText: "Delivered capacity" }).waitFor();
+    await table.locator("thead th[aria-sort=ascending]", { hasText: "Latest delivered capacity" }).waitFor();
     // Sorted on the server, lowest first: the demo's fast-fading cell PB-0019 (tests/support/demo/scenario.ts) leads.
     await page.waitForFunction(() => document.querySelector("table tbody tr")?.textContent?.includes("PB-0019") ?? false);
     const capacities = (await table.locator("tbody tr td:nth-child(3)").allInnerTexts()).map(mAhIn);
     expect(capacities).toHaveLength(24);
     expect([...capacities].sort((a, b) => a - b)).toEqual(capacities);
-    await page.getByRole("figure", { name: "Delivered capacity of the batch's cells" }).locator("canvas").first().waitFor();
+    await page.getByRole("figure", { name: "Latest delivered capacity of the batch's cells" }).locator("canvas").first().waitFor();
     await screenshot(page, "notebook-batch");
   });
 });

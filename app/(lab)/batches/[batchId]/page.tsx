@@ -13,6 +13,7 @@ import { currentUser } from "@/lib/auth/session";
 import { histogramBars } from "@/lib/charts/histogram-bars";
 import { getBatchCellRows, getDischargeCurvePayload } from "@/lib/db/queries/notebook";
 import { getBatch } from "@/lib/db/queries/registry";
+import { batchQualityHref } from "@/lib/flags/links";
 import { pageOfCellRows, type BatchCellRow } from "@/lib/notebook/batch-rows";
 import { formatMah } from "@/lib/notebook/format";
 import { formatCapacitySpec } from "@/lib/registry/format";
@@ -65,7 +66,14 @@ export default async function BatchPage({ params }: Params) {
           </Link>
         }
         title={<span className="font-mono">{batch.lotCode}</span>}
-        actions={<Badge tone={dispositionTone[batch.disposition]}>Decision: {batch.disposition}</Badge>}
+        actions={
+          <>
+            <Badge tone={dispositionTone[batch.disposition]}>Decision: {batch.disposition}</Badge>
+            <Link href={batchQualityHref(batch.id)} className="no-print rounded-md border border-rule-strong bg-sheet px-3 py-1.5 text-sm font-medium hover:bg-paper">
+              Quality figures and decision
+            </Link>
+          </>
+        }
       />
       <div className="space-y-6">
         <Panel>
@@ -79,7 +87,7 @@ export default async function BatchPage({ params }: Params) {
               { label: "Decision", value: batch.disposition },
               { label: "Cells with a delivered capacity", value: `${capacities.length} of ${cells.length}` },
               {
-                label: "Delivered capacity",
+                label: "Latest delivered capacity",
                 value: stats ? `mean ${formatMah(stats.mean)}, from ${formatMah(stats.min)} to ${formatMah(stats.max)}` : "no cell tested yet",
               },
               {

@@ -10,6 +10,7 @@ import { can } from "@/lib/auth/roles";
 import { currentUser } from "@/lib/auth/session";
 import { capacityByDate, isFullCycle } from "@/lib/charts/capacity";
 import { getCellNotebook, getDischargeCurvePayload } from "@/lib/db/queries/notebook";
+import { cellHealthHref } from "@/lib/flags/links";
 import { getCellBySerial, getCellType } from "@/lib/db/queries/registry";
 import { formatDateTime, formatMah, formatMilliohm, formatPercent, missing, withUnit } from "@/lib/notebook/format";
 import { formatTermination } from "@/lib/registry/format";
@@ -59,7 +60,18 @@ export default async function CellPage({ params }: Params) {
 
   return (
     <>
-      <PageTitle kicker="Cell" title={<span className="font-mono">{cell.serial}</span>} actions={<Badge tone={cellStatusTone[cell.status]}>{cell.status}</Badge>} />
+      <PageTitle
+        kicker="Cell"
+        title={<span className="font-mono">{cell.serial}</span>}
+        actions={
+          <>
+            <Badge tone={cellStatusTone[cell.status]}>{cell.status}</Badge>
+            <Link href={cellHealthHref(cell.serial)} className="no-print rounded-md border border-rule-strong bg-sheet px-3 py-1.5 text-sm font-medium hover:bg-paper">
+              Health, fade and flags
+            </Link>
+          </>
+        }
+      />
       <div className="space-y-6">
         <Panel title="Summary">
           <Facts
@@ -84,7 +96,16 @@ export default async function CellPage({ params }: Params) {
               { label: "Coulombic efficiency of that cycle", value: formatPercent(figures?.coulombicEfficiency, 2) },
               { label: "DC resistance, latest", value: figures?.dcir ? `${formatMilliohm(figures.dcir.medianMohm)} (${figures.dcir.method})` : missing },
               { label: "Status", value: <Badge tone={cellStatusTone[cell.status]}>{cell.status}</Badge> },
-              { label: "Open flags", value: notebook ? String(notebook.openFlags) : missing },
+              {
+                label: "Open flags",
+                value: notebook ? (
+                  <Link href={cellHealthHref(cell.serial)} className="underline-offset-2 hover:underline">
+                    {notebook.openFlags}
+                  </Link>
+                ) : (
+                  missing
+                ),
+              },
               { label: "Runs", value: String(runs.length) },
               { label: "Last tested", value: figures?.lastTestedAt ? formatDateTime(figures.lastTestedAt) : "never" },
             ]}

@@ -33,7 +33,7 @@ const columns: Column<BatchCellRow>[] = [
   { key: "status", header: "Status", sortKey: "status", cell: (r) => <Badge tone={cellStatusTone[r.status]}>{r.status}</Badge> },
   {
     key: "capacity",
-    header: "Delivered capacity",
+    header: "Latest delivered capacity",
     sortKey: "capacity",
     align: "right",
     cell: (r) =>
