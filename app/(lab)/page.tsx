@@ -5,24 +5,36 @@ import { PageTitle } from "@/components/ui/panel";
 import { roleLabels, type Role } from "@/lib/auth/roles";
 import { currentUser } from "@/lib/auth/session";
 import { CellTypeCountsBlock, PendingBatchesBlock, RecentCellsBlock, UserCountsBlock } from "./_components/start-blocks";
+import { NearingEndOfLifeBlock, OpenFlagsBlock, RecentUploadsBlock } from "./_components/work-blocks";
 
 export const metadata: Metadata = { title: "Start" };
 
 const intro: Record<Role, string> = {
-  technician: "Register cells as they arrive at the bench, by hand or from a lot's serial list.",
+  technician: "Send bench logs for analysis and follow them; register cells as they arrive at the bench.",
   "qa-lead": "Lots waiting for your decision, with how many of their cells are registered so far.",
-  engineer: "The cell types the lab tests and the state of their cells.",
+  engineer: "Flags that need someone, cells near the end of their life, and the state of each cell type.",
   admin: "Who has an account and in which role.",
 };
 
 function blocksFor(role: Role, userId: string): ReactNode {
   switch (role) {
     case "technician":
-      return <RecentCellsBlock userId={userId} />;
+      return (
+        <>
+          <RecentUploadsBlock userId={userId} />
+          <RecentCellsBlock userId={userId} />
+        </>
+      );
     case "qa-lead":
       return <PendingBatchesBlock />;
     case "engineer":
-      return <CellTypeCountsBlock />;
+      return (
+        <>
+          <OpenFlagsBlock />
+          <NearingEndOfLifeBlock />
+          <CellTypeCountsBlock />
+        </>
+      );
     case "admin":
       return <UserCountsBlock />;
   }

@@ -1,7 +1,7 @@
 import "server-only";
-import { asc, count, desc, eq, sql } from "drizzle-orm";
+import { and, asc, count, desc, eq, isNotNull, lt, ne, sql } from "drizzle-orm";
 import { getDb } from "../client";
-import { batch, cell, cellType, user } from "../schema";
+import { analysisVersion, batch, cell, cellType, run, user } from "../schema";
 
 /* Reads for the start page: small, narrow, one block each. */
 
@@ -103,4 +103,84 @@ export async function listCellTypeCellCounts(): Promise<CellTypeCellCounts[]> {
 export async function countUsersByRole(): Promise<{ role: string; users: number }[]> {
   const db = await getDb();
   return db.select({ role: user.role, users: count() }).from(user).groupBy(user.role).orderBy(asc(user.role));
+}
+
+export interface RecentUpload {
+  runId: string;
+  fileName: string;
+  serial: string;
+  purpose: string;
+  status: "queued" | "analysing" | "complete" | "failed";
+  createdAt: Date;
+  dischargedMah: number | null;
+  safetyFindings: number | null;
+}
+
+/** A technician's latest uploads with their analysis state and, once complete, the delivered capacity. */
+export async function listRecentUploadsBy(userId: string, limit = 10): Promise<RecentUpload[]> {
+  const db = await getDb();
+  return db
+    .select({
+      runId: run.id,
+      fileName: run.fileName,
+      serial: cell.serial,
+      purpose: run.purpose,
+      status: run.status,
+      createdAt: run.createdAt,
+      dischargedMah: analysisVersion.dischargedMah,
+      safetyFindings: analysisVersion.safetyFindingsCount,
+    })
+    .from(run)
+    .innerJoin(cell, eq(cell.id, run.cellId))
+    .leftJoin(analysisVersion, and(eq(analysisVersion.runId, run.id), eq(analysisVersion.version, run.latestVersion)))
+    .where(eq(run.uploadedBy, userId))
+    .orderBy(desc(run.createdAt))
+    .limit(limit);
+}
+
+export interface CellNearingEndOfLife {
+  serial: string;
+  lotCode: string | null;
+  cellTypeName: string;
+  ratedCapacityMah: number;
+  latestMah: number;
+  soh: number;
+  measuredAt: Date;
+}
+
+/**
+ * Cells whose latest complete run delivered less than `margin` above the end-of-life share of
+ * rated capacity (e.g. below 85 % when end of life is 80 %), lowest first. The latest run's whole
+ * delivered capacity is used here; the cell's health page has the per-cycle view.
+ */
+export async function listCellsNearingEndOfLife(eolShare: number, margin = 0.05, limit = 10): Promise<CellNearingEndOfLife[]> {
+  const db = await getDb();
+  const latest = db
+    .selectDistinctOn([run.cellId], {
+      cellId: run.cellId,
+      dischargedMah: analysisVersion.dischargedMah,
+      finishedAt: run.finishedAt,
+    })
+    .from(run)
+    .innerJoin(analysisVersion, and(eq(analysisVersion.runId, run.id), eq(analysisVersion.version, run.latestVersion)))
+    .where(and(eq(run.status, "complete"), isNotNull(analysisVersion.dischargedMah)))
+    .orderBy(run.cellId, desc(run.finishedAt))
+    .as("latest");
+  const rows = await db
+    .select({
+      serial: cell.serial,
+      lotCode: batch.lotCode,
+      cellTypeName: cellType.name,
+      ratedCapacityMah: cellType.ratedCapacityMah,
+      latestMah: sql<number>`${latest.dischargedMah}`.mapWith(Number),
+      measuredAt: latest.finishedAt,
+    })
+    .from(latest)
+    .innerJoin(cell, eq(cell.id, latest.cellId))
+    .innerJoin(cellType, eq(cellType.id, cell.cellTypeId))
+    .leftJoin(batch, eq(batch.id, cell.batchId))
+    .where(and(ne(cell.status, "retired"), lt(latest.dischargedMah, sql`${cellType.ratedCapacityMah} * ${eolShare + margin}`)))
+    .orderBy(sql`${latest.dischargedMah} / ${cellType.ratedCapacityMah}`)
+    .limit(limit);
+  return rows.map((r) => ({ ...r, soh: r.latestMah / r.ratedCapacityMah, measuredAt: r.measuredAt ?? new Date(0) }));
 }
