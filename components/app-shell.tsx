@@ -24,6 +24,9 @@ export function AppShell({ user, children }: { user: { name: string; role: Role 
             <span className="rounded bg-copper px-2 py-0.5 text-xs font-semibold uppercase tracking-wide text-white" data-testid="role-badge">
               {roleLabels[user.role]}
             </span>
+            <Link href="/settings" className="underline-offset-4 hover:underline">
+              Settings
+            </Link>
             <Link href="/sign-out" className="underline-offset-4 hover:underline">
               Sign out
             </Link>
