@@ -10,6 +10,8 @@ export interface Measurement {
   rows: number;
   bytes: number;
   seconds: number;
+  /** User + system CPU time of the run: steadier than wall time on a shared machine. */
+  cpuSeconds: number;
   rowsPerSecond: number;
   mbPerSecond: number;
   peakRssMb: number;
@@ -27,13 +29,16 @@ async function main(): Promise<void> {
   }
   const bytes = statSync(file).size;
   const start = performance.now();
+  const cpu = process.cpuUsage();
   const result = await run(createReadStream(file, { highWaterMark: 1 << 20 }));
   const seconds = (performance.now() - start) / 1000;
+  const used = process.cpuUsage(cpu);
   if (rowsText !== undefined && result.rows !== Number(rowsText)) throw new Error(`read ${result.rows} rows, expected ${rowsText}`);
   const m: Measurement = {
     rows: result.rows,
     bytes,
     seconds,
+    cpuSeconds: (used.user + used.system) / 1e6,
     rowsPerSecond: result.rows / seconds,
     mbPerSecond: bytes / 1e6 / seconds,
     // maxRSS is in kilobytes (Node docs, process.resourceUsage).

@@ -10,7 +10,7 @@
  */
 import { execFile } from "node:child_process";
 import { mkdtempSync, rmSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { loadavg, tmpdir } from "node:os";
 import { join } from "node:path";
 import { promisify } from "node:util";
 import { writeLog } from "./generate-log";
@@ -37,11 +37,11 @@ async function child(script: string, args: string[]): Promise<string> {
 
 function table(rows: Measurement[]): string {
   const lines = [
-    "| rows | MB | what | path | s | rows/s | MB/s | peak RSS MB |",
-    "|---:|---:|---|---|---:|---:|---:|---:|",
+    "| rows | MB | what | path | s | CPU s | rows/s | MB/s | peak RSS MB |",
+    "|---:|---:|---|---|---:|---:|---:|---:|---:|",
     ...rows.map(
       (m) =>
-        `| ${m.rows.toExponential(0)} | ${(m.bytes / 1e6).toFixed(1)} | ${m.what} | ${m.path} | ${m.seconds.toFixed(2)} | ${Math.round(m.rowsPerSecond).toLocaleString("en")} | ${m.mbPerSecond.toFixed(1)} | ${m.peakRssMb.toFixed(0)} |`,
+        `| ${m.rows.toExponential(0)} | ${(m.bytes / 1e6).toFixed(1)} | ${m.what} | ${m.path} | ${m.seconds.toFixed(2)} | ${m.cpuSeconds.toFixed(2)} | ${Math.round(m.rowsPerSecond).toLocaleString("en")} | ${m.mbPerSecond.toFixed(1)} | ${m.peakRssMb.toFixed(0)} |`,
     ),
   ];
   return lines.join("\n");
@@ -93,6 +93,7 @@ async function benchReader(dir: string): Promise<void> {
     }
   }
   console.log(table(results));
+  console.log(`\n(s: wall time; CPU s: user + system time of the child; load average ${loadavg().map((x) => x.toFixed(1)).join(" ")})`);
   const big = results.find((m) => m.rows >= targets.rows && m.what === "read + analyse") ?? results.find((m) => m.rows >= targets.rows);
   if (big)
     console.log(
