@@ -12,6 +12,8 @@ import { reject } from "./reject";
 import type { RowSink } from "./row-sink";
 import type { StringRowReader } from "./string-rows";
 
+const blockChars = 128 * 1024;
+
 export function createPapaParser(plan: ReadPlan, sink: RowSink, readCells: StringRowReader, encoding: string, newline: number): LineParser {
   const decoder = new TextDecoder(encoding);
   const newlineText = newline === 13 ? "\r" : "\n";
@@ -65,7 +67,14 @@ export function createPapaParser(plan: ReadPlan, sink: RowSink, readCells: Strin
         return;
       }
       carry = text.slice(cut + 1);
-      parseBlock(text.slice(0, cut), false);
+      // Blocks of about 128 K characters: papaparse's row arrays for a whole 1 MiB chunk
+      // pushed peak memory towards the 256 MB budget.
+      for (let from = 0; from <= cut; ) {
+        let to = from + blockChars >= cut ? cut : text.lastIndexOf(newlineText, from + blockChars);
+        if (to < from) to = cut;
+        parseBlock(text.slice(from, to), false);
+        from = to + 1;
+      }
       if (carry.length > maxLineBytes) tooLong(lineNumber);
     },
     end() {
