@@ -9,6 +9,7 @@ import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { decideLotAction } from "@/app/(lab)/batches/[batchId]/quality/actions";
 import { withRequestHeaders } from "@/lib/auth/request-headers";
 import { getDb } from "@/lib/db/client";
+import { raiseFlagByHand } from "@/lib/db/queries/flags";
 import { getBatchQuality, listLotDecisions } from "@/lib/db/queries/quality";
 import { createCell, getBatch } from "@/lib/db/queries/registry";
 import { auditEvent, lotDecision, runCycle } from "@/lib/db/schema";
@@ -105,5 +106,16 @@ describe("lot decisions", () => {
     await expect(db.update(lotDecision).set({ reason: "rewritten" }).where(eq(lotDecision.batchId, batchId))).rejects.toThrow();
     await expect(db.execute(sql`delete from lot_decision`)).rejects.toThrow();
     expect(await listLotDecisions(batchId)).toHaveLength(2);
+  });
+
+  it("groups matched sets from active cells only: a flagged cell stays out of a pack", async () => {
+    const before = await getBatchQuality(batchId, { setSize: 2, capacityTolerance_pct: 50, dcirTolerance_pct: null });
+    const grouped = (q: typeof before) => (q?.matching && "sets" in q.matching ? q.matching.sets.flatMap((set) => set.serials).sort() : []);
+    expect(grouped(before)).toEqual(serials);
+    await raiseFlagByHand({ cellSerial: "KP-LOT-2", reason: "Dent in the pouch" }, { id: others[0]?.id ?? "", name: "Test engineer" }, "http://localhost:3000");
+    const after = await getBatchQuality(batchId, { setSize: 2, capacityTolerance_pct: 50, dcirTolerance_pct: null });
+    expect(after?.flaggedSerials).toEqual(["KP-LOT-2"]);
+    expect(grouped(after)).not.toContain("KP-LOT-2");
+    expect(after?.report.summary?.n).toBe(4);
   });
 });

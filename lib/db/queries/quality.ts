@@ -46,6 +46,8 @@ export interface BatchQuality {
   report: BatchReport;
   matching: MatchResult | { error: string } | null;
   matchSettings: MatchSettings;
+  /** Measured cells left out of matching because they are flagged (retired ones are left out silently). */
+  flaggedSerials: string[];
 }
 
 function delivered(c: CellIdentity, m: CellMeasurements, eolPct: number): DeliveredCell | null {
@@ -92,7 +94,8 @@ export async function getBatchQuality(batchId: string, match: MatchSettings = de
     { spec: { lsl: found.capacityLslMah, usl: found.capacityUslMah } },
   );
   let matching: BatchQuality["matching"] = null;
-  const candidates = measured.filter((d) => d.status !== "retired");
+  // A flagged or retired cell does not go into a pack.
+  const candidates = measured.filter((d) => d.status === "active");
   if (candidates.length >= match.setSize) {
     try {
       matching = matchCells(
@@ -111,6 +114,7 @@ export async function getBatchQuality(batchId: string, match: MatchSettings = de
     report,
     matching,
     matchSettings: match,
+    flaggedSerials: measured.filter((d) => d.status === "flagged").map((d) => d.serial),
   };
 }
 

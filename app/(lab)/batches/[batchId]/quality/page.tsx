@@ -143,8 +143,13 @@ function MatchedSets({ q, batchId, match }: { q: BatchQuality; batchId: string; 
           Group
         </button>
       </form>
+      {q.flaggedSerials.length ? (
+        <p className="text-sm text-ink-soft">
+          Left out while flagged: <span className="font-mono">{q.flaggedSerials.join(", ")}</span>
+        </p>
+      ) : null}
       {m === null ? (
-        <p className="text-sm text-ink-soft">Needs at least {q.matchSettings.setSize} measured cells that are not retired.</p>
+        <p className="text-sm text-ink-soft">Needs at least {q.matchSettings.setSize} measured cells that are neither flagged nor retired.</p>
       ) : "error" in m ? (
         <p className="text-sm text-danger">{m.error}</p>
       ) : (
