@@ -127,6 +127,7 @@ const matrix: Record<string, Record<string, ActionRow | RouteRow>> = {
   "api/v1/cells/[serial]/runs/route.ts": { GET: { kind: "route", allowed: all, url: "/api/v1/cells/fixture/runs", params: fixtureCell } },
   "api/runs/[id]/route.ts": { GET: { kind: "route", allowed: all, url: "/api/runs/fixture", params: fixtureRun } },
   "api/runs/[id]/raw/route.ts": { GET: { kind: "route", allowed: all, url: "/api/runs/fixture/raw", params: fixtureRun } },
+  "api/runs/[id]/bdf/route.ts": { GET: { kind: "route", allowed: all, url: "/api/runs/fixture/bdf", params: fixtureRun } },
   "api/runs/[id]/notes/route.ts": { GET: { kind: "route", allowed: all, url: "/api/runs/fixture/notes", params: fixtureRun } },
   "api/runs/[id]/discharge-curve/route.ts": { GET: { kind: "route", allowed: all, url: "/api/runs/fixture/discharge-curve", params: fixtureRun } },
   "api/batches/[batchId]/cells/route.ts": { GET: { kind: "route", allowed: all, url: "/api/batches/fixture/cells", params: fixtureBatch } },

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { defineRoute } from "@/lib/auth/route";
 import { getRunFile } from "@/lib/db/queries/run-views";
+import { attachment } from "@/lib/http/content-disposition";
 import { AppError } from "@/lib/http/errors";
 import { verifiedStream } from "@/lib/ingest/verified-stream";
 import { openStoredFile } from "@/lib/uploads/storage";
@@ -12,12 +13,6 @@ function contentType(fileName: string): string {
   if (/\.tsv$/i.test(fileName)) return "text/tab-separated-values";
   if (/\.txt$/i.test(fileName)) return "text/plain";
   return "application/octet-stream";
-}
-
-/** RFC 6266: a plain ASCII fallback plus the exact name in RFC 5987 encoding. */
-function attachment(fileName: string): string {
-  const fallback = fileName.replace(/[^\x20-\x7e]|["\\]/g, "_");
-  return `attachment; filename="${fallback}"; filename*=UTF-8''${encodeURIComponent(fileName)}`;
 }
 
 /**
