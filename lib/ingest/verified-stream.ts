@@ -10,22 +10,30 @@ export function verifiedStream(source: ReadableStream<Uint8Array>, expectedSha25
   const reader = source.getReader();
   let held: Uint8Array | null = null;
   return new ReadableStream<Uint8Array>({
+    // Reads on until it has something to hand over: a pull that enqueues nothing leaves a
+    // waiting read unanswered (the stream calls pull again only after an enqueue or a new read).
     async pull(controller) {
-      const { done, value } = await reader.read();
-      if (done) {
-        const actual = hash.digest("hex");
-        if (actual !== expectedSha256) {
-          onMismatch(actual);
-          controller.error(new Error("The stored file does not match its recorded SHA-256"));
+      for (;;) {
+        const { done, value } = await reader.read();
+        if (done) {
+          const actual = hash.digest("hex");
+          if (actual !== expectedSha256) {
+            onMismatch(actual);
+            controller.error(new Error("The stored file does not match its recorded SHA-256"));
+            return;
+          }
+          if (held) controller.enqueue(held);
+          controller.close();
           return;
         }
-        if (held) controller.enqueue(held);
-        controller.close();
-        return;
+        hash.update(value);
+        const previous = held;
+        held = value;
+        if (previous) {
+          controller.enqueue(previous);
+          return;
+        }
       }
-      hash.update(value);
-      if (held) controller.enqueue(held);
-      held = value;
     },
     cancel(reason) {
       return reader.cancel(reason);

@@ -11,6 +11,7 @@ import type { SampleBatch } from "@/lib/analysis/types";
 import { bdfFileName, bdfLabels, createBdfWriter } from "@/lib/export/battery-data-format";
 import { logStartUnixS } from "@/lib/export/bdf-start-time";
 import { bdfStream } from "@/lib/export/bdf-stream";
+import { streamInPieces } from "../support/byte-stream";
 import { protocol, simulate, toCsv } from "../support/sim";
 
 /** One batch from plain arrays (the reader's shape: step/cycle/temp null when the log has none). */
@@ -31,19 +32,6 @@ function batchOf(c: { t: number[]; v: number[]; i: number[]; temp?: number[]; st
 function parse(text: string): { header: string[]; rows: Record<string, string>[] } {
   const result = Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true });
   return { header: result.meta.fields ?? [], rows: result.data };
-}
-
-/** A text as a byte stream in small pieces, so line and batch boundaries fall mid-chunk. */
-function streamOf(text: string, piece = 7001): ReadableStream<Uint8Array> {
-  const bytes = new TextEncoder().encode(text);
-  let at = 0;
-  return new ReadableStream<Uint8Array>({
-    pull(c) {
-      if (at >= bytes.length) return c.close();
-      c.enqueue(bytes.slice(at, at + piece));
-      at += piece;
-    },
-  });
 }
 
 async function* bytesOf(text: string): AsyncIterable<Uint8Array> {
@@ -165,7 +153,7 @@ describe("round trip: export, then read and analyse the BDF file like any log", 
   const original = toCsv(samples, { withStepColumn: true });
 
   async function exported(): Promise<string> {
-    return new Response(bdfStream(streamOf(original), { read: { fileName: "cap.csv" } })).text();
+    return new Response(bdfStream(streamInPieces(original, 7001), { read: { fileName: "cap.csv" } })).text();
   }
 
   it("is detected as a log with BDF's columns and units", async () => {
