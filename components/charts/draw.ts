@@ -69,8 +69,8 @@ export interface Marker {
 
 /**
  * Dashed vertical lines with a label at the top, and a ringed point where `y` is given. When
- * markers crowd (a cycle-life log has one switch per cycle), lines are left out and only labels
- * that fit are written, so the points stay readable.
+ * markers crowd (a cycle-life log has one switch per cycle), lines and labels are left out, so
+ * the points stay readable; otherwise a label that would overlap the one before is skipped.
  */
 export function drawMarkers(u: uPlot, markers: readonly Marker[], scale: string, token: ColorToken, color: ColorOf): void {
   const dpr = typeof devicePixelRatio === "number" ? devicePixelRatio : 1;
@@ -103,7 +103,8 @@ export function drawMarkers(u: uPlot, markers: readonly Marker[], scale: string,
       const width = ctx.measureText(m.label).width;
       const right = x + 4 * dpr + width < u.bbox.left + u.bbox.width;
       const start = right ? x + 4 * dpr : x - 4 * dpr - width;
-      if (start < labelEnd + 6 * dpr) continue;
+      // Crowded markers go unlabelled: the legend names them.
+      if (crowded || start < labelEnd + 6 * dpr) continue;
       ctx.fillStyle = color(token);
       ctx.fillText(m.label, start, u.bbox.top + 12 * dpr);
       labelEnd = start + width;

@@ -65,7 +65,8 @@ export default async function RunPage(props: Props) {
   const rawHref = `/api/runs/${run.id}/raw`;
   const latest = run.latestVersion ?? 0;
   // The switch of the version on view, not of the latest analysis.
-  const transition = report?.cycles.find((c) => c.charge?.transition)?.charge?.transition ?? null;
+  const switchCycle = report?.cycles.find((c) => c.charge?.transition) ?? null;
+  const transition = switchCycle?.charge?.transition ?? null;
 
   return (
     <>
@@ -82,6 +83,7 @@ export default async function RunPage(props: Props) {
             <a href={rawHref} download className="no-print rounded-md border border-rule-strong bg-sheet px-3 py-1.5 text-sm font-medium hover:bg-paper">
               Download the raw file
             </a>
+            {run.status !== "failed" ? <a href={`/api/runs/${run.id}/bdf`} download className="no-print rounded-md border border-rule-strong bg-sheet px-3 py-1.5 text-sm font-medium hover:bg-paper">Download in Battery Data Format</a> : null}
           </>
         }
       />
@@ -217,7 +219,7 @@ export default async function RunPage(props: Props) {
                   },
                   { label: "Mean discharge voltage", value: formatVolts(report.totals.mean_discharge_voltage_V) },
                   {
-                    label: "CC→CV switch",
+                    label: report.cycles.length > 1 && switchCycle ? `CC→CV switch, cycle ${switchCycle.cycle}` : "CC→CV switch",
                     value: transition ? `${formatClock(transition.time_s)} · ${formatVolts(transition.voltage_V)} · ${formatMah(transition.capacity_mAh)}` : "none in this log",
                   },
                   { label: "Duration (h:mm:ss)", value: formatClock(report.totals.duration_s) },
