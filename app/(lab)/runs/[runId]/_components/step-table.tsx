@@ -63,7 +63,7 @@ export function StepTable({ steps }: { steps: StepView[] }) {
         )}
       >
         {rows.map((s) => (
-          <tr key={s.step}>
+          <tr key={s.step} className="whitespace-nowrap">
             <td className={cellClass(true)}>{s.step}</td>
             <td className={cellClass(true)}>{s.cycle ?? missing}</td>
             <td className={`${cellClass()} whitespace-nowrap`}>{stepKindWords[s.kind]}</td>
