@@ -35,6 +35,9 @@ describe("a technician uploads a demo bench log", () => {
     await expect(item.innerText()).resolves.toContain('Detected: ";"-separated, decimal ","');
     // Column 3 (index 2) is "Strom [mA]": current in milliamperes.
     expect(await item.locator('select[id$="-current"]').inputValue()).toBe("2");
+    await item.getByLabel("Save these columns as").fill("Demo logger, German export");
+    await item.getByRole("button", { name: "Save column map" }).click();
+    await item.getByText('Saved as "Demo logger, German export".').waitFor();
     await screenshot(page, "upload-preview");
     await item.getByRole("button", { name: "Upload and analyse", exact: true }).click();
     const done = page.locator('[data-testid="run-progress"][data-status="complete"]');
@@ -50,6 +53,9 @@ describe("a technician uploads a demo bench log", () => {
   it("refuses the same file for the same cell and points to the stored run", async () => {
     await chooseLog("PB-0007", "PB-0007-capacity-check.csv");
     const item = page.getByTestId("upload-item");
+    await item.getByText("ready").waitFor();
+    // The map saved in the first test is offered for the next log.
+    await item.getByLabel("Use a saved column map").selectOption({ label: "Demo logger, German export (Tove Lindqvist)" });
     await item.getByText("ready").waitFor();
     await item.getByRole("button", { name: "Upload and analyse", exact: true }).click();
     await item.getByRole("link", { name: "Open the run already stored" }).waitFor({ timeout: 60_000 });

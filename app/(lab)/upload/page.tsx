@@ -4,6 +4,7 @@ import { SafetyCautions } from "@/components/safety-cautions";
 import { PageTitle } from "@/components/ui/panel";
 import { can } from "@/lib/auth/roles";
 import { currentUser } from "@/lib/auth/session";
+import { listColumnMaps } from "@/lib/db/queries/column-maps";
 import { listBatchOptions } from "@/lib/db/queries/registry";
 import { UploadWorkbench } from "./_components/upload-workbench";
 
@@ -13,11 +14,12 @@ export default async function UploadPage() {
   const user = await currentUser();
   if (!user || !can(user.role, "run.upload")) return <Forbidden />;
   const batches = (await listBatchOptions()).map(({ id, lotCode }) => ({ id, lotCode }));
+  const savedMaps = (await listColumnMaps(user.id)).map(({ id, name, ownerName, map }) => ({ id, name, ownerName, map }));
   return (
     <>
       <PageTitle kicker="Bench" title="Upload bench logs" />
       <div className="grid gap-6 xl:grid-cols-[1fr_20rem]">
-        <UploadWorkbench canCreateCell={can(user.role, "cell.write")} batches={batches} />
+        <UploadWorkbench canCreateCell={can(user.role, "cell.write")} batches={batches} savedMaps={savedMaps} />
         <div className="space-y-4">
           <SafetyCautions />
           <p className="text-sm text-ink-soft">

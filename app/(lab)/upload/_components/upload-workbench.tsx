@@ -15,6 +15,7 @@ import { DuplicateLog, uploadBenchLog } from "@/lib/uploads/client";
 import { isAcceptedLogFile, maxLogBytes, runPurposes } from "@/lib/validations/runs";
 import { ColumnMapEditor } from "./column-map-editor";
 import { RunProgress } from "./run-progress";
+import { SavedMaps, type SavedMapOption } from "./saved-maps";
 
 /** How many bytes the browser reads to show a preview and detect the columns before upload. */
 const previewBytes = 64 * 1024;
@@ -68,7 +69,16 @@ export interface CellOption {
   serial: string;
 }
 
-export function UploadWorkbench({ canCreateCell, batches }: { canCreateCell: boolean; batches: { id: string; lotCode: string }[] }) {
+export function UploadWorkbench({
+  canCreateCell,
+  batches,
+  savedMaps: initialMaps,
+}: {
+  canCreateCell: boolean;
+  batches: { id: string; lotCode: string }[];
+  savedMaps: SavedMapOption[];
+}) {
+  const [savedMaps, setSavedMaps] = useState(initialMaps);
   const queryClient = useQueryClient();
   const formId = useId();
   const fileInput = useRef<HTMLInputElement>(null);
@@ -230,7 +240,7 @@ export function UploadWorkbench({ canCreateCell, batches }: { canCreateCell: boo
             ref={fileInput}
             type="file"
             multiple
-            accept=".csv,.txt,.tsv,text/csv,text/plain,text/tab-separated-values"
+            accept=".csv,.txt,.tsv,.bdf,text/csv,text/plain,text/tab-separated-values"
             className="sr-only"
             aria-label="Choose bench log files"
             data-testid="log-file-input"
@@ -285,6 +295,13 @@ export function UploadWorkbench({ canCreateCell, batches }: { canCreateCell: boo
                   ) : null}
                   <PreviewTable preview={item.preview} map={item.map} />
                   <ColumnMapEditor header={item.preview.header} map={item.map} idPrefix={item.id} onChange={(map) => void changeMap(item, map)} />
+                  <SavedMaps
+                    idPrefix={item.id}
+                    maps={savedMaps}
+                    map={item.map}
+                    onApply={(map) => void changeMap(item, map)}
+                    onSaved={(saved) => setSavedMaps((list) => [saved, ...list.filter((m) => m.name !== saved.name)])}
+                  />
                   <div className="flex flex-wrap gap-2">
                     <Button tone="primary" disabled={item.phase !== "ready"} onClick={() => void send(item)}>
                       Upload and analyse
