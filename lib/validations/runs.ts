@@ -12,7 +12,8 @@ export const maxLogBytes = 256 * 1024 * 1024;
 export const maxLogFilesPerUpload = 20;
 /** MIME types browsers and bench PCs give CSV/TXT logs. */
 export const logMimeTypes = ["text/csv", "text/plain", "text/tab-separated-values", "application/vnd.ms-excel", "application/octet-stream"] as const;
-const logExtensions = /\.(csv|txt|tsv)$/i;
+// ".bdf" is the Battery Data Format's own extension for text files (its README, "File extension").
+const logExtensions = /\.(csv|txt|tsv|bdf)$/i;
 
 /** Octet-stream says nothing about content, so only a log-like name makes it acceptable. */
 export function isAcceptedLogFile(file: { name: string; type: string }): boolean {

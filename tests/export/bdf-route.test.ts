@@ -24,8 +24,8 @@ let technician: SignedInUser;
 let qa: SignedInUser;
 const serial = "KP-BDF-0001";
 
-async function upload(text: string, name: string): Promise<string> {
-  const response = await postLog({ headers: technician.headers }, { cellSerial: serial, purpose: "capacity check", ambientTempC: "23" }, { name, text });
+async function upload(text: string, name: string, type?: string): Promise<string> {
+  const response = await postLog({ headers: technician.headers }, { cellSerial: serial, purpose: "capacity check", ambientTempC: "23" }, { name, text, type });
   if (response.status !== 202) throw new Error(`upload refused: ${response.status} ${await response.text()}`);
   return ((await response.json()) as { run: { id: string } }).run.id;
 }
@@ -100,6 +100,18 @@ describe("GET /api/runs/:id/bdf", () => {
     expect(Math.abs(again.discharged - original.discharged) / original.discharged).toBeLessThan(0.001);
     const detail = await getRunDetail(runId);
     expect(detail?.analysis?.detection).toMatchObject({ columns: { time: { name: bdfLabels.testTime }, current: { name: bdfLabels.current, unit: "A" } } });
+  });
+
+  it("takes a file with BDF's own .bdf extension, sent with no telling MIME type", async () => {
+    expect(exported).not.toBe("");
+    // The same samples with the first row dropped, so the bytes differ from the upload before.
+    const lines = exported.split("\n");
+    const text = [lines[0], ...lines.slice(2)].join("\n");
+    const runId = await upload(text, "exported.bdf", "application/octet-stream");
+    await analysisIdle();
+    const again = await totalsOf(runId);
+    expect(again.status).toBe("complete");
+    expect(Math.abs(again.discharged - original.discharged) / original.discharged).toBeLessThan(0.001);
   });
 
   it("answers 409 with the located error for a run whose analysis failed", async () => {
