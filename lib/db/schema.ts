@@ -18,6 +18,7 @@ import {
 } from "drizzle-orm/pg-core";
 import { flagRuleKinds, flagStates } from "../flags/vocabulary";
 import { runPurposes, runStatuses } from "../validations/runs";
+import { signatureMeanings } from "../validations/signature";
 
 /* ------------------------------------------------------------------------------------------
  * Sign-in tables. Column names follow what better-auth's drizzle adapter expects
@@ -445,6 +446,31 @@ export const flagRule = pgTable(
   (t) => [check("flag_rule_kind_known", sql`${t.kind} in (${sql.raw(flagRuleKinds.map((k) => `'${k}'`).join(", "))})`)],
 );
 
+/**
+ * An electronic signature on a record (21 CFR 11.50: the signer's printed name, the date and time,
+ * and the meaning). The name is the one shown at signing, kept when the account is renamed or
+ * removed. Nullable because only some records are signed; which ones must be is enforced in code.
+ */
+function signatureColumns() {
+  return {
+    signedBy: text("signed_by").references(() => user.id, { onDelete: "set null" }),
+    signedByName: text("signed_by_name"),
+    signedAt: timestamp("signed_at", { withTimezone: true }),
+    signatureMeaning: text("signature_meaning", { enum: signatureMeanings }),
+  };
+}
+
+/** A signature is whole or absent: never a meaning without a name and a time. */
+function signatureChecks(table: string, t: { signedByName: AnyPgColumn; signedAt: AnyPgColumn; signatureMeaning: AnyPgColumn }) {
+  return [
+    check(`${table}_signature_meaning_known`, sql`${t.signatureMeaning} in (${sql.raw(signatureMeanings.map((m) => `'${m}'`).join(", "))})`),
+    check(
+      `${table}_signature_whole`,
+      sql`(${t.signedByName} is null) = (${t.signedAt} is null) and (${t.signedAt} is null) = (${t.signatureMeaning} is null)`,
+    ),
+  ];
+}
+
 /** A flag on one cell: opened by a rule on some evidence (an analysis), or raised by hand with a reason. */
 export const flag = pgTable(
   "flag",
@@ -497,8 +523,10 @@ export const flagTransition = pgTable(
     actorId: text("actor_id").references(() => user.id, { onDelete: "set null" }),
     actorName: text("actor_name").notNull(),
     at: timestamp("at", { withTimezone: true }).notNull().defaultNow(),
+    /** Set on the step that clears the flag. */
+    ...signatureColumns(),
   },
-  (t) => [index("flag_transition_flag_idx").on(t.flagId, t.at)],
+  (t) => [index("flag_transition_flag_idx").on(t.flagId, t.at), ...signatureChecks("flag_transition", t)],
 );
 
 /** The lab's settings for fade and alerts: a single row (id 1); defaults apply until it is saved. */
@@ -551,8 +579,10 @@ export const lotDecision = pgTable(
     decidedBy: text("decided_by").references(() => user.id, { onDelete: "set null" }),
     decidedByName: text("decided_by_name").notNull(),
     decidedAt: timestamp("decided_at", { withTimezone: true }).notNull().defaultNow(),
+    /** Every decision since signatures came in is signed; older rows have none. */
+    ...signatureColumns(),
   },
-  (t) => [index("lot_decision_batch_idx").on(t.batchId, t.decidedAt)],
+  (t) => [index("lot_decision_batch_idx").on(t.batchId, t.decidedAt), ...signatureChecks("lot_decision", t)],
 );
 
 export type FlagRuleRow = typeof flagRule.$inferSelect;
