@@ -114,6 +114,21 @@ describe("GET /api/runs/:id/bdf", () => {
     expect(Math.abs(again.discharged - original.discharged) / original.discharged).toBeLessThan(0.001);
   });
 
+  it("adds Unix time when the log's timestamps name their zone", async () => {
+    const start = Date.UTC(2026, 5, 1, 8, 0, 0); // ms since the epoch (ECMAScript Date.UTC)
+    const rows = Array.from({ length: 60 }, (_, k) => `${new Date(start + k * 10_000).toISOString()},${(3.6 + k * 0.005).toFixed(3)},0.500`);
+    const runId = await upload(["time,voltage_V,current_A", ...rows].join("\n") + "\n", "stamped.csv");
+    await analysisIdle();
+    const response = await fetchBdf(runId, technician.headers);
+    expect(response.status).toBe(200);
+    const parsed = Papa.parse<Record<string, string>>(await response.text(), { header: true, skipEmptyLines: true });
+    expect(parsed.meta.fields?.slice(0, 4)).toEqual([bdfLabels.testTime, bdfLabels.voltage, bdfLabels.current, bdfLabels.unixTime]);
+    expect(parsed.data.slice(0, 2).map((r) => [Number(r[bdfLabels.testTime]), Number(r[bdfLabels.unixTime])])).toEqual([
+      [0, start / 1000],
+      [10, start / 1000 + 10],
+    ]);
+  });
+
   it("answers 409 with the located error for a run whose analysis failed", async () => {
     const runId = await upload(malformedCsv, "broken.csv");
     await analysisIdle();

@@ -204,6 +204,41 @@ describe("round trip: export, then read and analyse the BDF file like any log", 
   });
 });
 
+describe("backpressure", () => {
+  it("reads the log only as far as the consumer has taken the export, and stops the source when it cancels", async () => {
+    // A long log made on demand: 2e6 rows (about 50 MB) that are never all in memory.
+    const rows = 2_000_000;
+    let row = 0;
+    let pulledBytes = 0;
+    let cancelled = false;
+    const encoder = new TextEncoder();
+    const source = new ReadableStream<Uint8Array>({
+      pull(c) {
+        if (row === 0) c.enqueue(encoder.encode("time_s,voltage_V,current_A\n"));
+        const lines: string[] = [];
+        for (let k = 0; k < 2000 && row < rows; k++, row++) lines.push(`${row},${(3.7 + (row % 1000) * 1e-4).toFixed(4)},0.5`);
+        const chunk = encoder.encode(lines.join("\n") + "\n");
+        pulledBytes += chunk.length;
+        c.enqueue(chunk);
+        if (row >= rows) c.close();
+      },
+      cancel() {
+        cancelled = true;
+      },
+    });
+    const reader = bdfStream(source).getReader();
+    const first = await reader.read();
+    expect(first.done).toBe(false);
+    // Let any read-ahead run on before measuring how much of the log was taken.
+    for (let k = 0; k < 50; k++) await new Promise((resolve) => setTimeout(resolve, 0));
+    // The reader's head (1 MiB) plus a few 8192-row batches of about 25 bytes a row, far short of the file.
+    expect(pulledBytes).toBeLessThan(4 * 1024 * 1024);
+    expect(row).toBeLessThan(rows / 10);
+    await reader.cancel();
+    expect(cancelled).toBe(true);
+  });
+});
+
 describe("the download's file name", () => {
   it("is the serial, the original name without its text extension, and .bdf.csv", () => {
     expect(bdfFileName("KP-0001", "bench3 run.csv")).toBe("KP-0001-bench3 run.bdf.csv");
