@@ -77,8 +77,10 @@ describe("content security policy and headers", () => {
     expect(await page.getByRole("table", { name: /Audit trail/ }).getByRole("row").count()).toBeGreaterThan(1);
     // Each page loaded whole, not only through client navigation: every response must carry its nonce.
     for (const path of ["/", "/cells", "/cell-types", "/audit", "/sign-out"]) {
-      await page.goto(`${app.url}${path}`);
-      await page.waitForLoadState("networkidle");
+      // "load" rather than "networkidle": link prefetches on long lists (the audit trail's run
+      // links) can keep the network busy for a while on a loaded machine.
+      await page.goto(`${app.url}${path}`, { waitUntil: "load" });
+      await page.locator("main h1").first().waitFor();
     }
     await page.getByRole("button", { name: "Sign out now" }).click();
     await page.waitForURL(`${app.url}/sign-in`);
