@@ -88,6 +88,16 @@ describe("column detection", () => {
     expect([c.time?.index, c.voltage?.index, c.current?.index]).toEqual([6, 3, 5]);
   });
 
+  it("takes the cell's temperature over the ambient one, and the ambient one when it is alone", async () => {
+    // Labels from the Battery Data Format README (Battery Data Alliance): ambient before surface.
+    const both = await readAll(
+      csv("Test Time / s,Voltage / V,Current / A,Ambient Temperature / degC,Surface Temperature T1 / degC", 30, (k) => `${ramp(k)},23.0,${(25 + k * 0.01).toFixed(2)}`),
+    );
+    expect(both.summary.detection.columns.temperature?.index).toBe(4);
+    const alone = await readAll(csv("Test Time / s,Voltage / V,Current / A,Ambient Temperature / degC", 30, (k) => `${ramp(k)},23.0`));
+    expect(alone.summary.detection.columns.temperature?.index).toBe(3);
+  });
+
   it("decides from the voltage response that negative current charges, even after a long rest", async () => {
     const rows = (k: number) => (k < 3000 ? `${k},3.6000,0.000` : `${k},${(3.6 + (k - 3000) * 0.0002).toFixed(4)},-1.000`);
     const got = await readAll(csv("Time (s),Voltage (V),Current (A)", 6000, rows));

@@ -6,7 +6,7 @@ import { classifyMode } from "./mode-words";
 import type { DecimalMark, Layout } from "./sniff";
 import { isBlankText, parseHmsText, parseNumberText, parseTimestampText } from "./text-values";
 import { splitHeader, type UnitMarker, parseUnitToken } from "./units";
-import { excludedWords, hasAnyWord, hasRoleWord, normaliseWords, setpointWords, stepClockWords, type WordRole } from "./vocabulary";
+import { ambientWords, excludedWords, hasAnyWord, hasRoleWord, normaliseWords, setpointWords, stepClockWords, type WordRole } from "./vocabulary";
 
 export interface ColumnFacts {
   index: number;
@@ -101,6 +101,7 @@ function quantityScore(f: ColumnFacts, role: "voltage" | "current" | "temperatur
   if (f.numericShare < 0.5) return 0;
   if (f.numericShare >= 0.9) score += 0.2;
   if (hasAnyWord(f.words, setpointWords)) score *= 0.6;
+  if (role === "temperature" && hasAnyWord(f.words, ambientWords)) score *= 0.6;
   return score;
 }
 

@@ -71,6 +71,13 @@ export const excludedWords: readonly string[] = [
 /** Words that mark a setpoint or limit rather than a measurement: such columns lose to a plain one. */
 export const setpointWords: readonly string[] = ["set", "setpoint", "soll", "limit", "target", "cutoff", "aux", "auxiliary"];
 
+/**
+ * Words that mark the surroundings' temperature rather than the cell's: such a column loses to the
+ * cell's own (a Battery Data Format file carries both "Ambient Temperature / degC" and "Surface
+ * Temperature T1 / degC"), and is still taken when it is the only temperature.
+ */
+export const ambientWords: readonly string[] = ["ambient", "umgebung", "ambiante", "ambiente", "room", "chamber", "kammer", "environment"];
+
 /** Words that make a time column the step's own clock rather than the test's. */
 export const stepClockWords: readonly string[] = ["step", "schritt", "etape", "paso", "passo", "stap", "etapa"];
 
