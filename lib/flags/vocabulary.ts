@@ -33,6 +33,13 @@ export function canStep(from: FlagState, to: FlagState): boolean {
   return flagSteps[from].includes(to);
 }
 
+/** Clearing says the evidence was looked at and found harmless: the person signs it, re-entering their password. */
+export const signedFlagStates: readonly FlagState[] = ["cleared"];
+
+export function stepNeedsSignature(to: FlagState): boolean {
+  return signedFlagStates.includes(to);
+}
+
 /** What a person picks in the transition form: the verb for each target state. */
 export const stepLabels: Record<FlagState, string> = {
   open: "Open",

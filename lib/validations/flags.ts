@@ -1,6 +1,7 @@
 import { z } from "zod";
-import { byHandKind, flagRuleKinds, flagStates, ruleKindInfo } from "@/lib/flags/vocabulary";
+import { byHandKind, flagRuleKinds, flagStates, ruleKindInfo, stepNeedsSignature } from "@/lib/flags/vocabulary";
 import { identifierField, numberField, optionalTextField, pageQuery, textField } from "./fields";
+import { signatureFields, signatureMeaningField, signaturePasswordField, type SignatureMeaning } from "./signature";
 
 const blankToUndefined = (v: unknown) => (typeof v === "string" && v.trim() === "" ? undefined : v);
 /** A checkbox posts "on" when ticked and nothing when not; clients may send a boolean. */
@@ -22,14 +23,27 @@ export const raiseFlagInput = z.object({
 });
 export type RaiseFlagInput = z.output<typeof raiseFlagInput>;
 
-export const transitionFlagInput = z.object({
+const transitionFlagFields = z.object({
   flagId: z.uuid({ error: "Choose a flag" }),
   to: z.enum(flagStates, { error: "Choose the next step" }),
   reason: reasonField,
   /** The state the person saw; a flag moved meanwhile is refused rather than stepped twice. */
   expectedState: z.enum(flagStates),
 });
-export type TransitionFlagInput = z.output<typeof transitionFlagInput>;
+/** A step without its signature fields: what the database layer takes. */
+export type TransitionFlagInput = z.output<typeof transitionFlagFields>;
+
+/** The form posts the signature fields empty on steps that need none. */
+export const transitionFlagInput = transitionFlagFields
+  .extend({
+    password: z.preprocess(blankToUndefined, signaturePasswordField.optional()),
+    meaning: z.preprocess(blankToUndefined, signatureMeaningField.optional()),
+  })
+  .superRefine((v, ctx) => {
+    if (!stepNeedsSignature(v.to)) return;
+    if (v.password === undefined) ctx.addIssue({ code: "custom", path: ["password"], message: "Enter your password to sign the clearing" });
+    if (v.meaning === undefined) ctx.addIssue({ code: "custom", path: ["meaning"], message: "Choose what your signature means" });
+  });
 
 const boundField = z.preprocess(blankToUndefined, numberField("Bound").optional());
 
@@ -78,13 +92,27 @@ export type LabSettingsInput = z.output<typeof labSettingsInput>;
 
 export const lotDecisions = ["accepted", "rejected", "on hold"] as const;
 
-export const lotDecisionInput = z.object({
+const lotDecisionFields = z.object({
   batchId: z.uuid({ error: "Choose a batch" }),
   disposition: z.enum(lotDecisions, { error: "Choose accept, reject or hold" }),
   reason: reasonField,
   expectedDisposition: z.enum(["pending", ...lotDecisions]),
 });
-export type LotDecisionInput = z.output<typeof lotDecisionInput>;
+/** A decision without its signature fields: what the database layer takes. */
+export type LotDecisionInput = z.output<typeof lotDecisionFields>;
+
+/** Meanings that would contradict the decision they sign. */
+const contradictingMeaning: Record<(typeof lotDecisions)[number], SignatureMeaning | null> = {
+  accepted: "rejected",
+  rejected: "approved",
+  "on hold": null,
+};
+
+/** Every lot decision is signed. */
+export const lotDecisionInput = lotDecisionFields.extend(signatureFields).superRefine((v, ctx) => {
+  if (contradictingMeaning[v.disposition] === v.meaning)
+    ctx.addIssue({ code: "custom", path: ["meaning"], message: `A lot ${v.disposition} cannot be signed as ${v.meaning}` });
+});
 
 /** Matched-set settings on the quality page's query string; tolerances are vendor guidance, not a standard. */
 export const matchQuery = z.object({

@@ -135,7 +135,12 @@ describe("a rule opens a flag after an analysis and the engineers get the alert"
     expect(again.skipped).toBeGreaterThanOrEqual(1);
     expect(await sohFlags()).toHaveLength(1);
 
-    await transitionFlag({ flagId: only.id, to: "cleared", reason: "Capacity low by design: a half-size sample cell", expectedState: "open" }, { id: engineerA.id, name: "Ada Engineer" });
+    await transitionFlag(
+      { flagId: only.id, to: "cleared", reason: "Capacity low by design: a half-size sample cell", expectedState: "open" },
+      { id: engineerA.id, name: "Ada Engineer" },
+      // The password check is the action's; this test calls the database layer, which only needs a verified signer.
+      { signerId: engineerA.id, signerName: "Ada Engineer", meaning: "reviewed" },
+    );
     const unclosed = (await flagsOf({ cellId: (await getCellBySerial("KP-FADE-1"))?.id ?? "" })).filter((f) => f.state !== "cleared");
     expect((await getCellBySerial("KP-FADE-1"))?.status).toBe(unclosed.length ? "flagged" : "active");
 

@@ -15,7 +15,7 @@ import type { FlagState } from "@/lib/flags/vocabulary";
 import { stopOutboxSender } from "@/lib/mail/sender";
 import { installTestDatabase, removeTestDatabase } from "../support/db";
 import { cellTypeWithBatch } from "../support/registry-fixtures";
-import { signedInUser, type SignedInUser } from "../support/users";
+import { signedInUser, testPassword, type SignedInUser } from "../support/users";
 
 vi.mock("next/cache", () => ({ revalidatePath: vi.fn(), revalidateTag: vi.fn(), updateTag: vi.fn() }));
 
@@ -25,6 +25,8 @@ let qaLead: SignedInUser;
 let technician: SignedInUser;
 
 const as = <T>(who: SignedInUser, fn: () => Promise<T>) => withRequestHeaders(who.headers, fn);
+/** Clearing is signed with the stepper's password (tests/security/e-signature.test.ts covers the signature itself). */
+const signed = { password: testPassword, meaning: "reviewed" } as const;
 
 async function raise(serial: string, reason = "Swelling seen at the tab after the last charge") {
   const result = await as(engineer, () => raiseFlagAction({ cellSerial: serial, reason }));
@@ -59,7 +61,7 @@ describe("flag steps", () => {
       [engineer, "cleared", "retest requested", "Retest within spec; the swelling was the pouch label"],
     ];
     for (const [who, to, expectedState, reason] of steps) {
-      const result = await as(who, () => transitionFlagAction({ flagId, to, expectedState, reason }));
+      const result = await as(who, () => transitionFlagAction({ flagId, to, expectedState, reason, ...(to === "cleared" ? signed : {}) }));
       expect(result).toMatchObject({ ok: true, data: { id: flagId, state: to } });
     }
     const detail = await getFlagDetail(flagId);
@@ -79,14 +81,14 @@ describe("flag steps", () => {
     const flagId = await raise("KP-STEP-2");
     const reopen = await as(engineer, () => transitionFlagAction({ flagId, to: "open", expectedState: "open", reason: "Again" }));
     expect(reopen).toMatchObject({ ok: false, status: 409 });
-    const stale = await as(engineer, () => transitionFlagAction({ flagId, to: "cleared", expectedState: "acknowledged", reason: "Looked fine" }));
+    const stale = await as(engineer, () => transitionFlagAction({ flagId, to: "cleared", expectedState: "acknowledged", reason: "Looked fine", ...signed }));
     expect(stale).toMatchObject({ ok: false, status: 409 });
-    const noReason = await as(engineer, () => transitionFlagAction({ flagId, to: "cleared", expectedState: "open", reason: " " }));
+    const noReason = await as(engineer, () => transitionFlagAction({ flagId, to: "cleared", expectedState: "open", reason: " ", ...signed }));
     expect(noReason).toMatchObject({ ok: false, status: 400, fieldErrors: { reason: expect.any(Array) } });
     const unknownState = await as(engineer, () => transitionFlagAction({ flagId, to: "closed" as "cleared", expectedState: "open", reason: "Done" }));
     expect(unknownState).toMatchObject({ ok: false, status: 400 });
 
-    expect(await as(engineer, () => transitionFlagAction({ flagId, to: "cleared", expectedState: "open", reason: "Looked fine on a second look" }))).toMatchObject({ ok: true });
+    expect(await as(engineer, () => transitionFlagAction({ flagId, to: "cleared", expectedState: "open", reason: "Looked fine on a second look", ...signed }))).toMatchObject({ ok: true });
     const afterClose = await as(engineer, () => transitionFlagAction({ flagId, to: "acknowledged", expectedState: "cleared", reason: "Once more" }));
     expect(afterClose).toMatchObject({ ok: false, status: 409 });
     expect((await getFlagDetail(flagId))?.transitions).toHaveLength(2);

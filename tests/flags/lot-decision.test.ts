@@ -18,7 +18,7 @@ import { storeAnalysedRun } from "../support/analysed-runs";
 import { capacityCheckCsv } from "../support/bench-logs";
 import { installTestDatabase, removeTestDatabase } from "../support/db";
 import { cellTypeWithBatch } from "../support/registry-fixtures";
-import { signedInUser, type SignedInUser } from "../support/users";
+import { signedInUser, testPassword, type SignedInUser } from "../support/users";
 
 vi.mock("next/cache", () => ({ revalidatePath: vi.fn(), revalidateTag: vi.fn(), updateTag: vi.fn() }));
 
@@ -45,8 +45,11 @@ afterAll(async () => {
   await removeTestDatabase();
 });
 
+const meaningOf = { accepted: "approved", rejected: "rejected", "on hold": "reviewed" } as const;
 const decide = (who: SignedInUser, disposition: "accepted" | "rejected" | "on hold", expectedDisposition: string, reason = "Capability and spread as shown") =>
-  withRequestHeaders(who.headers, () => decideLotAction({ batchId, disposition, expectedDisposition: expectedDisposition as "pending", reason }));
+  withRequestHeaders(who.headers, () =>
+    decideLotAction({ batchId, disposition, expectedDisposition: expectedDisposition as "pending", reason, password: testPassword, meaning: meaningOf[disposition] }),
+  );
 
 describe("lot decisions", () => {
   it("computes the batch figures from the stored analyses by the handbook formulas", async () => {
@@ -81,13 +84,23 @@ describe("lot decisions", () => {
     expect((await getBatch(batchId))?.disposition).toBe("on hold");
     const [decision] = await listLotDecisions(batchId);
     expect(decision).toMatchObject({ fromDisposition: "pending", disposition: "on hold", decidedByName: "Quinn Lead", reason: "Waiting for the supplier's formation records" });
+    expect(decision?.signature).toMatchObject({ signerName: "Quinn Lead", meaning: "reviewed" });
     expect(decision?.figures).toMatchObject({ n: 4, unmeasured: 0, lsl_mAh: 950, usl_mAh: null, capability: { index: "Cpl" } });
     expect(Date.now() - (decision?.decidedAt.getTime() ?? 0)).toBeGreaterThanOrEqual(0);
 
     const db = await getDb();
     const audit = await db.select({ action: auditEvent.action, before: auditEvent.before, after: auditEvent.after }).from(auditEvent).where(eq(auditEvent.entityId, batchId));
     expect(audit.filter((a) => a.action === "lot decision")).toEqual([
-      { action: "lot decision", before: { disposition: "pending" }, after: { disposition: "on hold", reason: "Waiting for the supplier's formation records", lotCode: "LOT-DECIDE-1" } },
+      {
+        action: "lot decision",
+        before: { disposition: "pending" },
+        after: {
+          disposition: "on hold",
+          reason: "Waiting for the supplier's formation records",
+          lotCode: "LOT-DECIDE-1",
+          signature: { signerId: qaLead.id, signerName: "Quinn Lead", signedAt: decision?.signature?.signedAt.toISOString(), meaning: "reviewed" },
+        },
+      },
     ]);
   });
 

@@ -2,7 +2,17 @@ import "server-only";
 import { and, asc, count, desc, eq, ilike, inArray, ne, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { AppError } from "@/lib/http/errors";
-import { byHandKind, canStep, describeRule, flagRuleKinds, isClosed, unclosedFlagStates, type FlagRuleKind, type FlagState } from "@/lib/flags/vocabulary";
+import {
+  byHandKind,
+  canStep,
+  describeRule,
+  flagRuleKinds,
+  isClosed,
+  stepNeedsSignature,
+  unclosedFlagStates,
+  type FlagRuleKind,
+  type FlagState,
+} from "@/lib/flags/vocabulary";
 import { flagAlert } from "@/lib/mail/flag-alert";
 import type { CreateRuleInput, FlagListQuery, LabSettingsInput, RaiseFlagInput, TransitionFlagInput, UpdateRuleInput } from "@/lib/validations/flags";
 import { getDb, type Executor, type Transaction } from "../client";
@@ -10,6 +20,7 @@ import { analysisVersion, batch, cell, flag, flagRule, flagTransition, labSettin
 import { recordAudit, type AuditActor } from "./audit";
 import { activeEngineers, enqueueMessages } from "./outbox";
 import type { Page } from "./registry";
+import { signatureAudit, signatureOf, signatureValues, type Signature, type SignatureView } from "./signatures";
 
 /** The name the history shows when the app itself took a step (a rule opened the flag). */
 export const ruleActorName = "Kneepoint (rule)";
@@ -329,7 +340,18 @@ export async function raiseFlagByHand(input: RaiseFlagInput, actor: AuditActor, 
 
 /* ---------------------------------- transitions ---------------------------------- */
 
-export async function transitionFlag(input: TransitionFlagInput, actor: AuditActor): Promise<{ id: string; state: FlagState; closedAlso: number }> {
+/**
+ * One step of a flag. Clearing needs the stepper's signature, checked before this is called
+ * (lib/auth/e-signature.ts) and written in the step's transaction; other steps take none.
+ */
+export async function transitionFlag(
+  input: TransitionFlagInput,
+  actor: AuditActor,
+  signature?: Signature,
+): Promise<{ id: string; state: FlagState; closedAlso: number; signature: SignatureView | null }> {
+  if (stepNeedsSignature(input.to) && !signature)
+    throw new AppError("bad-request", `A flag becomes ${input.to} only with your signature.`, { fieldErrors: { password: ["Enter your password to sign"] } });
+  const signed = stepNeedsSignature(input.to) ? signature : undefined;
   const db = await getDb();
   return db.transaction(async (tx) => {
     const [current] = await tx.select({ state: flag.state, cellId: flag.cellId }).from(flag).where(eq(flag.id, input.flagId)).for("update");
@@ -341,7 +363,7 @@ export async function transitionFlag(input: TransitionFlagInput, actor: AuditAct
         fieldErrors: { to: ["Not a step this flag can take"] },
       });
     const now = new Date();
-    await step(tx, input.flagId, current.state, input.to, input.reason, actor, now);
+    await step(tx, input.flagId, current.state, input.to, input.reason, actor, now, signed);
     let closedAlso = 0;
     if (input.to === "cell retired") {
       const [before] = await tx.select({ status: cell.status }).from(cell).where(eq(cell.id, current.cellId)).for("update");
@@ -358,14 +380,27 @@ export async function transitionFlag(input: TransitionFlagInput, actor: AuditAct
     } else {
       await syncCellStatus(tx, current.cellId, actor);
     }
-    return { id: input.flagId, state: input.to, closedAlso };
+    const view = signed ? { signerName: signed.signerName, signedAt: now, meaning: signed.meaning } : null;
+    return { id: input.flagId, state: input.to, closedAlso, signature: view };
   });
 }
 
-async function step(tx: Transaction, flagId: string, from: FlagState, to: FlagState, reason: string, actor: AuditActor, at: Date): Promise<void> {
+async function step(
+  tx: Transaction,
+  flagId: string,
+  from: FlagState,
+  to: FlagState,
+  reason: string,
+  actor: AuditActor,
+  at: Date,
+  signature?: Signature,
+): Promise<void> {
   await tx.update(flag).set({ state: to, updatedAt: at }).where(eq(flag.id, flagId));
-  await tx.insert(flagTransition).values({ flagId, fromState: from, toState: to, reason, actorId: actor.id, actorName: actor.name, at });
-  await recordAudit(tx, actor, { action: "transition", entity: "flag", entityId: flagId, before: { state: from }, after: { state: to, reason } });
+  await tx
+    .insert(flagTransition)
+    .values({ flagId, fromState: from, toState: to, reason, actorId: actor.id, actorName: actor.name, at, ...(signature ? signatureValues(signature, at) : {}) });
+  const after = signature ? { state: to, reason, signature: signatureAudit(signature, at) } : { state: to, reason };
+  await recordAudit(tx, actor, { action: "transition", entity: "flag", entityId: flagId, before: { state: from }, after });
 }
 
 /* ---------------------------------- reading ---------------------------------- */
@@ -462,6 +497,8 @@ export interface FlagTransitionView {
   reason: string;
   actorName: string;
   at: Date;
+  /** Set on the step that cleared the flag (since signatures came in). */
+  signature: SignatureView | null;
 }
 
 export interface FlagDetail extends FlagListItem {
@@ -493,6 +530,9 @@ export async function getFlagDetail(flagId: string): Promise<FlagDetail | null> 
         reason: flagTransition.reason,
         actorName: flagTransition.actorName,
         at: flagTransition.at,
+        signedByName: flagTransition.signedByName,
+        signedAt: flagTransition.signedAt,
+        signatureMeaning: flagTransition.signatureMeaning,
       })
       .from(flagTransition)
       .where(eq(flagTransition.flagId, flagId))
@@ -508,7 +548,7 @@ export async function getFlagDetail(flagId: string): Promise<FlagDetail | null> 
   return {
     ...item,
     ruleDescription: ruleKind ? describeRule(ruleKind, ruleBound, settings.eolThresholdPct) : null,
-    transitions,
+    transitions: transitions.map(({ signedByName, signedAt, signatureMeaning, ...t }) => ({ ...t, signature: signatureOf({ signedByName, signedAt, signatureMeaning }) })),
     evidence: evidence[0] ?? null,
   };
 }

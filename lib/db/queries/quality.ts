@@ -11,6 +11,7 @@ import { recordAudit, type AuditActor } from "./audit";
 import { cellIdentities, loadCellRuns, type CellIdentity } from "./cell-measurements";
 import { flagsOf, getLabSettings } from "./flags";
 import { getBatch, type BatchListItem } from "./registry";
+import { signatureAudit, signatureOf, signatureValues, type Signature, type SignatureView } from "./signatures";
 
 /**
  * A batch's quality figures. Delivered capacity of a cell is its first capacity measurement (the
@@ -156,10 +157,17 @@ export function decisionFigures(q: BatchQuality, unclosedFlags: number): Decisio
 }
 
 /**
- * Records a QA lead's decision on a lot and sets the batch's disposition, with an audit event,
- * in one transaction. The figures are computed here, on the server, at the moment of deciding.
+ * Records a QA lead's signed decision on a lot and sets the batch's disposition, with an audit
+ * event, in one transaction. The figures are computed here, on the server, at the moment of
+ * deciding. The signer's password is checked before this is called (lib/auth/e-signature.ts).
  */
-export async function decideLot(input: LotDecisionInput, actor: AuditActor): Promise<{ id: number; disposition: LotDecisionInput["disposition"] }> {
+export async function decideLot(
+  input: LotDecisionInput,
+  actor: AuditActor,
+  signature: Signature,
+): Promise<{ id: number; disposition: LotDecisionInput["disposition"]; signature: SignatureView }> {
+  // The type says so already; this guards callers that reach here without one at run time.
+  if (!signature?.signerName) throw new AppError("bad-request", "A lot decision must be signed.", { fieldErrors: { password: ["Enter your password to sign"] } });
   const quality = await getBatchQuality(input.batchId);
   if (!quality) throw new AppError("not-found", "That batch does not exist.");
   const flags = await flagsOf({ batchId: input.batchId, unclosedOnly: true });
@@ -172,6 +180,7 @@ export async function decideLot(input: LotDecisionInput, actor: AuditActor): Pro
       throw new AppError("conflict", `The batch is ${current.disposition} now (someone decided meanwhile); look at its decisions and try again.`);
     if (current.disposition === input.disposition)
       throw new AppError("conflict", `The batch is ${current.disposition} already.`, { fieldErrors: { disposition: ["That is the current decision"] } });
+    const now = new Date();
     const [row] = await tx
       .insert(lotDecision)
       .values({
@@ -182,6 +191,8 @@ export async function decideLot(input: LotDecisionInput, actor: AuditActor): Pro
         figures,
         decidedBy: actor.id,
         decidedByName: actor.name,
+        decidedAt: now,
+        ...signatureValues(signature, now),
       })
       .returning({ id: lotDecision.id });
     if (!row) throw new Error("insert returned no row");
@@ -191,9 +202,9 @@ export async function decideLot(input: LotDecisionInput, actor: AuditActor): Pro
       entity: "batch",
       entityId: input.batchId,
       before: { disposition: current.disposition },
-      after: { disposition: input.disposition, reason: input.reason, lotCode: quality.batch.lotCode },
+      after: { disposition: input.disposition, reason: input.reason, lotCode: quality.batch.lotCode, signature: signatureAudit(signature, now) },
     });
-    return { id: row.id, disposition: input.disposition };
+    return { id: row.id, disposition: input.disposition, signature: { signerName: signature.signerName, signedAt: now, meaning: signature.meaning } };
   });
 }
 
@@ -206,6 +217,8 @@ export interface LotDecisionView {
   decidedByName: string;
   decidedByCurrentName: string | null;
   decidedAt: Date;
+  /** Null only on decisions recorded before signatures came in. */
+  signature: SignatureView | null;
 }
 
 /** A batch's decisions, newest first. */
@@ -221,12 +234,19 @@ export async function listLotDecisions(batchId: string): Promise<LotDecisionView
       decidedByName: lotDecision.decidedByName,
       decidedByCurrentName: user.name,
       decidedAt: lotDecision.decidedAt,
+      signedByName: lotDecision.signedByName,
+      signedAt: lotDecision.signedAt,
+      signatureMeaning: lotDecision.signatureMeaning,
     })
     .from(lotDecision)
     .leftJoin(user, eq(user.id, lotDecision.decidedBy))
     .where(eq(lotDecision.batchId, batchId))
     .orderBy(desc(lotDecision.decidedAt), desc(lotDecision.id));
-  return rows.map((r) => ({ ...r, figures: (r.figures as DecisionFigures | null) ?? null }));
+  return rows.map(({ signedByName, signedAt, signatureMeaning, ...r }) => ({
+    ...r,
+    figures: (r.figures as DecisionFigures | null) ?? null,
+    signature: signatureOf({ signedByName, signedAt, signatureMeaning }),
+  }));
 }
 
 export interface ComparedBatch {

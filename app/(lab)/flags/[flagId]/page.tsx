@@ -5,6 +5,7 @@ import { cache } from "react";
 import { z } from "zod";
 import { FlagStateBadge } from "@/components/health/flag-badges";
 import { SafetyCautions } from "@/components/safety-cautions";
+import { SignatureLine } from "@/components/signature/signature-line";
 import { Facts } from "@/components/ui/facts";
 import { PageTitle, Panel } from "@/components/ui/panel";
 import { cellClass, headersOf, SimpleTable } from "@/components/ui/simple-table";
@@ -120,7 +121,10 @@ export default async function FlagPage({ params }: Params) {
                   <td className={`${cellClass()} whitespace-nowrap`}>{formatDateTime(t.at)}</td>
                   <td className={cellClass()}>{t.fromState ? `${t.fromState} → ${t.toState}` : "opened"}</td>
                   <td className={cellClass()}>{t.actorName}</td>
-                  <td className={cellClass()}>{t.reason}</td>
+                  <td className={cellClass()}>
+                    {t.reason}
+                    <SignatureLine signature={t.signature} className="mt-1 block text-xs text-ink-soft" />
+                  </td>
                 </tr>
               ))}
             </SimpleTable>

@@ -1,20 +1,34 @@
 "use client";
 
 import { useActionState, useState } from "react";
+import { SignatureFields } from "@/components/signature/signature-fields";
 import { Button } from "@/components/ui/button";
 import { TextAreaField } from "@/components/ui/field";
 import { FormMessage } from "@/components/ui/form-message";
 import { Panel } from "@/components/ui/panel";
 import type { ActionResult } from "@/lib/auth/action-result";
-import { flagSteps, stepLabels, type FlagState } from "@/lib/flags/vocabulary";
+import { signatureManifest } from "@/lib/auth/signature-manifest";
+import { flagSteps, stepLabels, stepNeedsSignature, type FlagState } from "@/lib/flags/vocabulary";
+import type { SignatureMeaning } from "@/lib/validations/signature";
 import { transitionFlagAction } from "../actions";
+
+const signingStatement =
+  "By signing you confirm that you have looked at this flag's evidence yourself and that the reason given is right. Your name, the time and the meaning are recorded with the step.";
+
+type Stepped = { id: string; state: FlagState; closedAlso: number; signature: { signerName: string; signedAt: Date; meaning: SignatureMeaning } | null };
+
+function steppedMessage(r: Stepped): string {
+  const others = r.closedAlso ? `; ${r.closedAlso} other flag${r.closedAlso === 1 ? "" : "s"} of the cell closed with it` : "";
+  return `The flag is ${r.state} now${others}.${r.signature ? ` ${signatureManifest(r.signature)}.` : ""}`;
+}
 
 /** The next step of a flag: one of the steps its state allows, with the reason recorded in its history. */
 export function TransitionForm({ flagId, state }: { flagId: string; state: FlagState }) {
   const steps = flagSteps[state];
   const [to, setTo] = useState<FlagState | "">(steps[0] ?? "");
   const [reason, setReason] = useState("");
-  const [result, submit, pending] = useActionState<ActionResult<{ id: string; state: FlagState; closedAlso: number }> | null, FormData>(async (_prev, form) => {
+  const [meaning, setMeaning] = useState<SignatureMeaning>("reviewed");
+  const [result, submit, pending] = useActionState<ActionResult<Stepped> | null, FormData>(async (_prev, form) => {
     const outcome = await transitionFlagAction(form);
     if (outcome.ok) setReason("");
     return outcome;
@@ -44,9 +58,10 @@ export function TransitionForm({ flagId, state }: { flagId: string; state: FlagS
           ) : null}
         </fieldset>
         <TextAreaField label="Reason" name="reason" required rows={3} value={reason} onChange={(e) => setReason(e.target.value)} errors={errors.reason} hint="Recorded with your name and the time; the history cannot be changed later." />
-        <FormMessage state={result} success={(r) => `The flag is ${r.state} now${r.closedAlso ? `; ${r.closedAlso} other flag${r.closedAlso === 1 ? "" : "s"} of the cell closed with it` : ""}.`} />
+        {to && stepNeedsSignature(to) ? <SignatureFields statement={signingStatement} meaning={meaning} onMeaningChange={setMeaning} errors={errors} /> : null}
+        <FormMessage state={result} success={steppedMessage} />
         <Button type="submit" tone={to === "cell retired" ? "danger" : "primary"} disabled={pending || !to}>
-          {pending ? "Saving…" : to ? stepLabels[to] : "Choose a step"}
+          {pending ? "Saving…" : !to ? "Choose a step" : stepNeedsSignature(to) ? `Sign and ${stepLabels[to].toLowerCase()}` : stepLabels[to]}
         </Button>
       </form>
     </Panel>

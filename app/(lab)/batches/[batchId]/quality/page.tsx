@@ -5,6 +5,7 @@ import { cache } from "react";
 import { z } from "zod";
 import { CapacityHistogramChart } from "@/components/charts/summary-charts";
 import { FlagTable } from "@/components/health/flag-table";
+import { SignatureLine } from "@/components/signature/signature-line";
 import { Badge, dispositionTone, type BadgeTone } from "@/components/ui/badge";
 import { buttonClass } from "@/components/ui/button";
 import { inputClass } from "@/components/ui/field";
@@ -228,6 +229,7 @@ export default async function BatchQualityPage(props: Props) {
                       </span>{" "}
                       by {d.decidedByName}, {formatDateTime(d.decidedAt)}
                       <span className="block">{d.reason}</span>
+                      <SignatureLine signature={d.signature} />
                       {d.figures ? (
                         <span className="block text-xs text-ink-soft">
                           In view: n = {d.figures.n}, mean {formatMah(d.figures.mean_mAh)}

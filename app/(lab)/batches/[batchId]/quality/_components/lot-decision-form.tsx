@@ -1,25 +1,34 @@
 "use client";
 
 import { useActionState, useState } from "react";
+import { SignatureFields } from "@/components/signature/signature-fields";
 import { Button } from "@/components/ui/button";
 import { TextAreaField } from "@/components/ui/field";
 import { FormMessage } from "@/components/ui/form-message";
 import { Panel } from "@/components/ui/panel";
 import type { ActionResult } from "@/lib/auth/action-result";
+import { signatureManifest } from "@/lib/auth/signature-manifest";
+import type { SignatureMeaning } from "@/lib/validations/signature";
 import { decideLotAction } from "../actions";
 
+/** Each decision with the signature meaning it most often carries; the signer may pick another that does not contradict it. */
 const choices = [
-  { value: "accepted", label: "Accept the lot" },
-  { value: "on hold", label: "Put the lot on hold" },
-  { value: "rejected", label: "Reject the lot" },
-] as const;
+  { value: "accepted", label: "Accept the lot", meaning: "approved" },
+  { value: "on hold", label: "Put the lot on hold", meaning: "reviewed" },
+  { value: "rejected", label: "Reject the lot", meaning: "rejected" },
+] as const satisfies readonly { value: string; label: string; meaning: SignatureMeaning }[];
+
+const signingStatement =
+  "By signing you confirm that this decision is yours and that you have looked at the figures and flags on this page. Your name, the time and the meaning are recorded with the decision.";
 
 /** The QA lead's decision, made beside the figures it rests on; the server records those figures with it. */
 export function LotDecisionForm({ batchId, disposition }: { batchId: string; disposition: string }) {
   const options = choices.filter((c) => c.value !== disposition);
   const [choice, setChoice] = useState<string>(options[0]?.value ?? "");
+  const [meaning, setMeaning] = useState<SignatureMeaning>(options[0]?.meaning ?? "reviewed");
   const [reason, setReason] = useState("");
-  const [state, submit, pending] = useActionState<ActionResult<{ id: number; disposition: string }> | null, FormData>(async (_prev, form) => {
+  type Decided = { id: number; disposition: string; signature: { signerName: string; signedAt: Date; meaning: SignatureMeaning } };
+  const [state, submit, pending] = useActionState<ActionResult<Decided> | null, FormData>(async (_prev, form) => {
     const result = await decideLotAction(form);
     if (result.ok) setReason("");
     return result;
@@ -35,7 +44,16 @@ export function LotDecisionForm({ batchId, disposition }: { batchId: string; dis
           <div className="mt-1 space-y-1">
             {options.map((c) => (
               <label key={c.value} className="flex items-center gap-2 text-sm">
-                <input type="radio" name="disposition" value={c.value} checked={choice === c.value} onChange={() => setChoice(c.value)} />
+                <input
+                  type="radio"
+                  name="disposition"
+                  value={c.value}
+                  checked={choice === c.value}
+                  onChange={() => {
+                    setChoice(c.value);
+                    setMeaning(c.meaning);
+                  }}
+                />
                 {c.label}
               </label>
             ))}
@@ -56,9 +74,10 @@ export function LotDecisionForm({ batchId, disposition }: { batchId: string; dis
           errors={errors.reason}
           hint="Recorded with your name, the time and the figures on this page."
         />
-        <FormMessage state={state} success={(d) => `Recorded: the lot is ${d.disposition}.`} />
+        <SignatureFields statement={signingStatement} meaning={meaning} onMeaningChange={setMeaning} errors={errors} />
+        <FormMessage state={state} success={(d) => `Recorded: the lot is ${d.disposition}. ${signatureManifest(d.signature)}.`} />
         <Button type="submit" tone={choice === "rejected" ? "danger" : "primary"} disabled={pending || !choice}>
-          {pending ? "Recording…" : "Record the decision"}
+          {pending ? "Signing…" : "Sign and record the decision"}
         </Button>
       </form>
     </Panel>
