@@ -99,7 +99,7 @@ describe("GET /api/runs/:id/bdf", () => {
     expect(Math.abs(again.charged - original.charged) / original.charged).toBeLessThan(0.001);
     expect(Math.abs(again.discharged - original.discharged) / original.discharged).toBeLessThan(0.001);
     const detail = await getRunDetail(runId);
-    expect(detail?.analysis?.detection).toMatchObject({ columns: { time: { name: bdfLabels.testTime }, current: { name: bdfLabels.current, unit: "A" } } });
+    expect(detail?.analysis?.detection).toMatchObject({ columns: { time: { name: bdfLabels.testTime }, current: { name: bdfLabels.current, unit: "A" }, temperature: { name: bdfLabels.surfaceTemperature } } });
   });
 
   it("takes a file with BDF's own .bdf extension, sent with no telling MIME type", async () => {
