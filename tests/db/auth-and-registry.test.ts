@@ -3,6 +3,7 @@ import { sessionFromHeaders } from "@/lib/auth/session";
 import { createBatch, createCell, createCellType, importSerials, listBatches, listCells } from "@/lib/db/queries/registry";
 import { batchListQuery, cellListQuery } from "@/lib/validations/registry";
 import { installTestDatabase, removeTestDatabase } from "../support/db";
+import { pouchCellType } from "../support/registry-fixtures";
 import { signedInUser } from "../support/users";
 
 beforeAll(async () => {
@@ -10,22 +11,7 @@ beforeAll(async () => {
 });
 afterAll(removeTestDatabase);
 
-const lipo = {
-  name: "Test pouch 1000",
-  chemistry: "LiPo" as const,
-  nominalVoltageV: 3.7,
-  chargeVoltageLimitV: 4.2,
-  dischargeCutoffV: 3.0,
-  ratedCapacityMah: 1000,
-  maxChargeC: 1,
-  maxDischargeC: 2,
-  terminationC: 0.05,
-  chargeTempMinC: 0,
-  chargeTempMaxC: 45,
-  dischargeTempMinC: -20,
-  dischargeTempMaxC: 60,
-  notes: "",
-};
+const lipo = pouchCellType("Test pouch 1000");
 
 describe("sign-in and registry on a migrated database", () => {
   it("signs a user in and reads the session back with its role", async () => {

@@ -8,9 +8,9 @@ import { isRole, roleLabels, roles } from "@/lib/auth/roles";
 import { countUsersByRole, listCellTypeCellCounts, listPendingBatches, listRecentCellsBy } from "@/lib/db/queries/overview";
 import { batchHref, cellHref } from "@/lib/registry/links";
 
-const linkClass = "text-copper-dark underline-offset-2 hover:underline";
+export const linkClass = "text-copper-dark underline-offset-2 hover:underline";
 
-function Empty({ children }: { children: ReactNode }) {
+export function Empty({ children }: { children: ReactNode }) {
   return <div className="rounded-md border border-dashed border-rule-strong bg-paper px-4 py-5 text-sm text-ink-soft">{children}</div>;
 }
 

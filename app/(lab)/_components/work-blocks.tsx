@@ -1,5 +1,4 @@
 import Link from "next/link";
-import type { ReactNode } from "react";
 import { Badge, type BadgeTone } from "@/components/ui/badge";
 import { buttonClass } from "@/components/ui/button";
 import { Panel } from "@/components/ui/panel";
@@ -8,13 +7,9 @@ import { getLabSettings, listFlags } from "@/lib/db/queries/flags";
 import { listCellsNearingEndOfLife, listRecentUploadsBy } from "@/lib/db/queries/overview";
 import { flagListQuery } from "@/lib/validations/flags";
 import { cellHref } from "@/lib/registry/links";
+import { Empty, linkClass } from "./start-blocks";
 
-const linkClass = "text-copper-dark underline-offset-2 hover:underline";
 const statusTone: Record<string, BadgeTone> = { queued: "neutral", analysing: "accent", complete: "good", failed: "bad" };
-
-function Empty({ children }: { children: ReactNode }) {
-  return <div className="rounded-md border border-dashed border-rule-strong bg-paper px-4 py-5 text-sm text-ink-soft">{children}</div>;
-}
 
 function when(date: Date): string {
   return date.toISOString().slice(0, 16).replace("T", " ");

@@ -88,6 +88,23 @@ export interface BatchListItem {
 const cellCounts = (exec: Executor) =>
   exec.select({ batchId: cell.batchId, n: count().as("n") }).from(cell).groupBy(cell.batchId).as("cell_counts");
 
+/** The columns of a batch row in lists and on its page, with how many of its cells are registered. */
+function batchListColumns(counts: ReturnType<typeof cellCounts>) {
+  return {
+    id: batch.id,
+    lotCode: batch.lotCode,
+    supplier: batch.supplier,
+    receivedOn: batch.receivedOn,
+    quantity: batch.quantity,
+    disposition: batch.disposition,
+    cellTypeId: batch.cellTypeId,
+    cellTypeName: cellType.name,
+    capacityLslMah: batch.capacityLslMah,
+    capacityUslMah: batch.capacityUslMah,
+    registeredCells: sql<number>`coalesce(${counts.n}, 0)`.mapWith(Number),
+  };
+}
+
 export async function listBatches(query: BatchListQuery): Promise<Page<BatchListItem>> {
   const db = await getDb();
   const filters: SQL[] = [];
@@ -113,19 +130,7 @@ export async function listBatches(query: BatchListQuery): Promise<Page<BatchList
 
   const [items, [totalRow]] = await Promise.all([
     db
-      .select({
-        id: batch.id,
-        lotCode: batch.lotCode,
-        supplier: batch.supplier,
-        receivedOn: batch.receivedOn,
-        quantity: batch.quantity,
-        disposition: batch.disposition,
-        cellTypeId: batch.cellTypeId,
-        cellTypeName: cellType.name,
-        capacityLslMah: batch.capacityLslMah,
-        capacityUslMah: batch.capacityUslMah,
-        registeredCells: sql<number>`coalesce(${counts.n}, 0)`.mapWith(Number),
-      })
+      .select(batchListColumns(counts))
       .from(batch)
       .innerJoin(cellType, eq(cellType.id, batch.cellTypeId))
       .leftJoin(counts, eq(counts.batchId, batch.id))
@@ -142,19 +147,7 @@ export async function getBatch(id: string): Promise<BatchListItem | null> {
   const db = await getDb();
   const counts = cellCounts(db);
   const [row] = await db
-    .select({
-      id: batch.id,
-      lotCode: batch.lotCode,
-      supplier: batch.supplier,
-      receivedOn: batch.receivedOn,
-      quantity: batch.quantity,
-      disposition: batch.disposition,
-      cellTypeId: batch.cellTypeId,
-      cellTypeName: cellType.name,
-      capacityLslMah: batch.capacityLslMah,
-      capacityUslMah: batch.capacityUslMah,
-      registeredCells: sql<number>`coalesce(${counts.n}, 0)`.mapWith(Number),
-    })
+    .select(batchListColumns(counts))
     .from(batch)
     .innerJoin(cellType, eq(cellType.id, batch.cellTypeId))
     .leftJoin(counts, eq(counts.batchId, batch.id))
