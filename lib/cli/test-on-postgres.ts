@@ -1,15 +1,16 @@
 /**
  * `npm run test:pg`: the integration suites again, on the PostgreSQL server named by
- * TEST_DATABASE_URL (`.ci/run` starts one). Without that variable it says so and does nothing, so a
- * developer without a server still gets a green `npm test` from the embedded database alone.
- * Files run one at a time because they share the server's one database.
+ * KNEEPOINT_TEST_PG_URL (`.ci/run` starts one). Without that variable it says so and does nothing,
+ * so a developer without a server still gets a green `npm test` from the embedded database alone.
+ * The URL reaches the suites as TEST_DATABASE_URL for this step only: the files share the server's
+ * one database, so they run one at a time here, while the main suite runs in parallel on PGlite.
  */
 import { spawnSync } from "node:child_process";
 import path from "node:path";
 
-const url = process.env.TEST_DATABASE_URL;
+const url = process.env.KNEEPOINT_TEST_PG_URL;
 if (!url) {
-  console.log("test:pg: TEST_DATABASE_URL is not set; the integration suites ran on the embedded database only.");
+  console.log("test:pg: KNEEPOINT_TEST_PG_URL is not set; the integration suites ran on the embedded database only.");
   process.exit(0);
 }
 const integrationDirs = ["tests/db", "tests/registry", "tests/security", "tests/ingest", "tests/api", "tests/audit", "tests/flags"];
