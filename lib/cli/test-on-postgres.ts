@@ -13,7 +13,7 @@ if (!url) {
   console.log("test:pg: KNEEPOINT_TEST_PG_URL is not set; the integration suites ran on the embedded database only.");
   process.exit(0);
 }
-const integrationDirs = ["tests/db", "tests/registry", "tests/security", "tests/ingest", "tests/api", "tests/audit", "tests/flags"];
+const integrationDirs = ["tests/db", "tests/registry", "tests/security", "tests/ingest", "tests/audit", "tests/flags", "tests/notebook", "tests/export", "tests/robustness"];
 console.log(`test:pg: running ${integrationDirs.join(", ")} on ${url.replace(/:[^:@/]+@/, ":***@")}`);
 const vitest = path.join(process.cwd(), "node_modules", "vitest", "vitest.mjs");
 const result = spawnSync(process.execPath, [vitest, "run", "--config", "tests/vitest.config.ts", "--no-file-parallelism", ...integrationDirs], {
