@@ -194,6 +194,18 @@ export interface CellListItem {
   createdAt: Date;
 }
 
+/** The columns of a cell row in lists and on its page (joined with its type and batch). */
+const cellListColumns = {
+  id: cell.id,
+  serial: cell.serial,
+  status: cell.status,
+  batchId: cell.batchId,
+  lotCode: batch.lotCode,
+  cellTypeId: cell.cellTypeId,
+  cellTypeName: cellType.name,
+  createdAt: cell.createdAt,
+};
+
 export async function listCells(query: CellListQuery): Promise<Page<CellListItem>> {
   const db = await getDb();
   const filters: SQL[] = [];
@@ -216,16 +228,7 @@ export async function listCells(query: CellListQuery): Promise<Page<CellListItem
 
   const [items, [totalRow]] = await Promise.all([
     db
-      .select({
-        id: cell.id,
-        serial: cell.serial,
-        status: cell.status,
-        batchId: cell.batchId,
-        lotCode: batch.lotCode,
-        cellTypeId: cell.cellTypeId,
-        cellTypeName: cellType.name,
-        createdAt: cell.createdAt,
-      })
+      .select(cellListColumns)
       .from(cell)
       .innerJoin(cellType, eq(cellType.id, cell.cellTypeId))
       .leftJoin(batch, eq(batch.id, cell.batchId))
@@ -246,16 +249,7 @@ export async function listCells(query: CellListQuery): Promise<Page<CellListItem
 export async function getCellBySerial(serial: string): Promise<CellListItem | null> {
   const db = await getDb();
   const [row] = await db
-    .select({
-      id: cell.id,
-      serial: cell.serial,
-      status: cell.status,
-      batchId: cell.batchId,
-      lotCode: batch.lotCode,
-      cellTypeId: cell.cellTypeId,
-      cellTypeName: cellType.name,
-      createdAt: cell.createdAt,
-    })
+    .select(cellListColumns)
     .from(cell)
     .innerJoin(cellType, eq(cellType.id, cell.cellTypeId))
     .leftJoin(batch, eq(batch.id, cell.batchId))
