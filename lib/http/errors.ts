@@ -44,9 +44,12 @@ export class AppError extends Error {
   }
 
   toResponse(): Response {
+    const retryAfterMs = this.details?.retryAfterMs;
+    // RFC 9110 §10.2.3: whole seconds; the body keeps the milliseconds for clients that want them.
+    const headers: HeadersInit = typeof retryAfterMs === "number" ? { "retry-after": String(Math.max(1, Math.ceil(retryAfterMs / 1000))) } : {};
     return Response.json(
       { error: this.message, code: this.code, fieldErrors: this.fieldErrors, ...this.details },
-      { status: this.status },
+      { status: this.status, headers },
     );
   }
 }

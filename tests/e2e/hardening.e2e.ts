@@ -6,6 +6,7 @@
  */
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { defaultApiRateLimits } from "@/lib/auth/api-rate-limit";
 import { demoUsers } from "@/lib/db/seed-users";
 import { startAppServer, type AppServer } from "./support/app-server";
 import { freshPage, openBrowser, signIn } from "./support/browser";
@@ -113,6 +114,23 @@ describe("content security policy and headers", () => {
     expect(outcome).toEqual({ handler: false, evaluated: false });
     expect(violations.some((v) => /content security policy/i.test(v))).toBe(true);
     await page.context().close();
+  });
+});
+
+describe("API token limits on the running server", () => {
+  it("answers 401 to bad tokens until the address's budget is spent, then 429 with Retry-After", async () => {
+    const statuses: number[] = [];
+    let limited: Response | undefined;
+    // No X-Forwarded-For: the server counts by the loopback address it sees.
+    for (let i = 0; i < defaultApiRateLimits.badTokensPerWindow + 1; i++) {
+      const response = await fetch(`${app.url}/api/v1/runs/00000000-0000-4000-8000-000000000000`, { headers: { authorization: `Bearer kp_${"x".repeat(43)}` } });
+      statuses.push(response.status);
+      limited = response;
+    }
+    expect(statuses.slice(0, -1).every((s) => s === 401), statuses.join(",")).toBe(true);
+    expect(limited?.status).toBe(429);
+    expect(Number(limited?.headers.get("retry-after"))).toBeGreaterThan(60);
+    expect(((await limited?.json()) as { error: string }).error).toMatch(/Too many requests with a bad API token came from this address/);
   });
 });
 

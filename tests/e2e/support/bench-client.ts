@@ -55,24 +55,39 @@ export class BenchClient {
     return { authorization: `Bearer ${this.token}` };
   }
 
+  /** Counts the 429s this client waited out, so a test can tell it met the API's rate limit. */
+  rateLimitedCount = 0;
+
+  /** One request, waiting out a 429 as a well-behaved bench script does (Retry-After, in ms from the body). */
+  private async send(url: string, init: RequestInit = {}): Promise<Response> {
+    for (;;) {
+      const response = await fetch(url, { ...init, headers: this.headers() });
+      if (response.status !== 429) return response;
+      this.rateLimitedCount += 1;
+      const body = (await response.json()) as { retryAfterMs?: number };
+      const waitMs = body.retryAfterMs ?? Number(response.headers.get("retry-after") ?? "1") * 1000;
+      await new Promise((r) => setTimeout(r, waitMs));
+    }
+  }
+
   /** POST /api/v1/runs with one log file; answers the status and the run (when one was made). */
   async post(fields: Record<string, string>, file: Blob, name: string): Promise<{ status: number; run: RunState | null }> {
     const form = new FormData();
     for (const [k, v] of Object.entries(fields)) form.set(k, v);
     form.set("file", file, name);
-    const response = await fetch(`${this.url}/api/v1/runs`, { method: "POST", headers: this.headers(), body: form });
+    const response = await this.send(`${this.url}/api/v1/runs`, { method: "POST", body: form });
     const body = (await response.json()) as { run?: RunState | null };
     return { status: response.status, run: body.run ?? null };
   }
 
   async get(runId: string): Promise<RunState> {
-    const response = await fetch(`${this.url}/api/v1/runs/${runId}`, { headers: this.headers() });
+    const response = await this.send(`${this.url}/api/v1/runs/${runId}`);
     if (response.status !== 200) throw new Error(`GET run ${runId}: ${response.status} ${await response.text()}`);
     return ((await response.json()) as { run: RunState }).run;
   }
 
   async cellRuns(serial: string): Promise<RunState[]> {
-    const response = await fetch(`${this.url}/api/v1/cells/${encodeURIComponent(serial)}/runs`, { headers: this.headers() });
+    const response = await this.send(`${this.url}/api/v1/cells/${encodeURIComponent(serial)}/runs`);
     if (response.status !== 200) throw new Error(`GET runs of ${serial}: ${response.status}`);
     return ((await response.json()) as { runs: RunState[] }).runs;
   }
