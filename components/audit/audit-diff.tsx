@@ -26,7 +26,7 @@ function ChangeLine({ change }: { change: FieldChange }) {
  * Before → after of one audit event as readable lines. Values are rendered as React text, so a
  * serial or note holding markup shows as the characters typed, never as markup.
  */
-export function AuditDiff({ before, after }: { before: unknown; after: unknown }) {
+export function AuditDiff({ before, after, expanded = false }: { before: unknown; after: unknown; expanded?: boolean }) {
   const changes = diffAuditValues(before, after);
   if (changes.length === 0) return <span className="text-ink-soft">no recorded values</span>;
   const list = (
@@ -36,7 +36,8 @@ export function AuditDiff({ before, after }: { before: unknown; after: unknown }
       ))}
     </ul>
   );
-  if (changes.length <= collapseAbove) return list;
+  // Paper cannot open a disclosure: a printed record shows every field.
+  if (expanded || changes.length <= collapseAbove) return list;
   return (
     <details>
       <summary className="cursor-pointer text-copper-dark">{changes.length} fields</summary>

@@ -73,3 +73,10 @@ export function formatDateTime(value: Date | string): string {
   const pad = (n: number) => String(n).padStart(2, "0");
   return `${date.getFullYear()}-${pad(date.getMonth() + 1)}-${pad(date.getDate())} ${pad(date.getHours())}:${pad(date.getMinutes())}`;
 }
+
+/** A time for a printed record: UTC to the minute and saying so, since paper has no time zone. */
+export function formatUtc(value: Date | string): string {
+  const date = typeof value === "string" ? new Date(value) : value;
+  if (Number.isNaN(date.getTime())) return missing;
+  return `${date.toISOString().slice(0, 16).replace("T", " ")} UTC`;
+}

@@ -5,7 +5,7 @@
 import { createElement } from "react";
 import { renderToStaticMarkup } from "react-dom/server";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { AuditDiff } from "@/app/(lab)/audit/_components/audit-diff";
+import { AuditDiff } from "@/components/audit/audit-diff";
 import { GET } from "@/app/api/audit/route";
 import type { AuditPage } from "@/lib/db/queries/audit";
 import { createCell, importSerials } from "@/lib/db/queries/registry";

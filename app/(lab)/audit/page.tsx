@@ -19,7 +19,9 @@ export default async function AuditPage() {
       <PageTitle kicker="Records" title="Audit trail" />
       <p className="mb-4 max-w-3xl text-sm text-ink-soft">
         Every change to cells, batches, cell types, runs, people and settings, with who made it, when, and the values before and after. Events
-        are only ever added: the database refuses to change or remove one. Times are shown in your browser&apos;s time zone.
+        are only ever added: the database refuses to change or remove one. Times are shown in your browser&apos;s time zone. To follow one cell from
+        its registration to its retirement, search for its serial: its own events, and those of its runs and flags, are listed. Each cell&apos;s printable
+        report ends with the same history.
       </p>
       <Suspense>
         <AuditTable options={options} />

@@ -1,10 +1,11 @@
 import "server-only";
 import { and, asc, count, desc, eq, gte, ilike, inArray, isNull, lt, or, sql, type SQL } from "drizzle-orm";
-import { runHref } from "@/lib/flags/links";
+import { flagHref, runHref } from "@/lib/flags/links";
+import { kindTitle } from "@/lib/flags/vocabulary";
 import { batchHref, cellHref } from "@/lib/registry/links";
 import { systemActor, type AuditListQuery } from "@/lib/validations/audit";
 import { getDb, type Executor } from "../client";
-import { auditEvent, batch, cell, cellType, run, user } from "../schema";
+import { auditEvent, batch, cell, cellType, flag, run, user } from "../schema";
 
 export interface AuditActor {
   id: string;
@@ -70,14 +71,28 @@ function escapeLike(text: string): string {
   return text.replace(/[\\%_]/g, (c) => `\\${c}`);
 }
 
-/** Events whose entity is a current cell or batch with a matching serial / lot code, or whose recorded values name one. */
+/** The events of the life of the cells `cellWhere` picks: the cells themselves, their runs (uploads, analyses, notes) and their flags. */
+function cellLifeFilter(cellWhere: SQL): SQL | undefined {
+  const cellIds = sql`select ${cell.id}::text from ${cell} where ${cellWhere}`;
+  const runIds = sql`select ${run.id}::text from ${run} inner join ${cell} on ${cell.id} = ${run.cellId} where ${cellWhere}`;
+  const flagIds = sql`select ${flag.id}::text from ${flag} inner join ${cell} on ${cell.id} = ${flag.cellId} where ${cellWhere}`;
+  return or(
+    and(eq(auditEvent.entity, "cell"), sql`${auditEvent.entityId} in (${cellIds})`),
+    and(eq(auditEvent.entity, "run"), sql`${auditEvent.entityId} in (${runIds})`),
+    and(eq(auditEvent.entity, "flag"), sql`${auditEvent.entityId} in (${flagIds})`),
+  );
+}
+
+/**
+ * Events whose entity is a current cell or batch with a matching serial / lot code, or a run or
+ * flag of such a cell, or whose recorded values name one: typing a serial follows that cell's life.
+ */
 function textFilter(text: string): SQL | undefined {
   const like = `%${escapeLike(text)}%`;
-  const cellIds = sql`select ${cell.id}::text from ${cell} where ${cell.serial} ilike ${like}`;
   const batchIds = sql`select ${batch.id}::text from ${batch} where ${batch.lotCode} ilike ${like}`;
   return or(
     ilike(auditEvent.entityId, like),
-    and(eq(auditEvent.entity, "cell"), sql`${auditEvent.entityId} in (${cellIds})`),
+    cellLifeFilter(ilike(cell.serial, like)),
     and(eq(auditEvent.entity, "batch"), sql`${auditEvent.entityId} in (${batchIds})`),
     sql`${auditEvent.after}->>'serial' ilike ${like}`,
     sql`${auditEvent.after}->>'lotCode' ilike ${like}`,
@@ -102,9 +117,12 @@ type Labels = Map<string, { label: string; href: string | null }>;
 async function currentLabels(db: Executor, rows: { entity: string; entityId: string }[]): Promise<Labels> {
   const idsOf = (kind: string) => [...new Set(rows.filter((r) => r.entity === kind).map((r) => r.entityId))];
   const uuidsOf = (kind: string) => idsOf(kind).filter((id) => uuidPattern.test(id));
-  const [cells, runs, batches, types, users] = await Promise.all([
+  const [cells, runs, flags, batches, types, users] = await Promise.all([
     uuidsOf("cell").length ? db.select({ id: cell.id, serial: cell.serial }).from(cell).where(inArray(cell.id, uuidsOf("cell"))) : [],
     uuidsOf("run").length ? db.select({ id: run.id, fileName: run.fileName }).from(run).where(inArray(run.id, uuidsOf("run"))) : [],
+    uuidsOf("flag").length
+      ? db.select({ id: flag.id, kind: flag.kind, serial: cell.serial }).from(flag).innerJoin(cell, eq(cell.id, flag.cellId)).where(inArray(flag.id, uuidsOf("flag")))
+      : [],
     uuidsOf("batch").length ? db.select({ id: batch.id, lotCode: batch.lotCode }).from(batch).where(inArray(batch.id, uuidsOf("batch"))) : [],
     uuidsOf("cell type").length
       ? db.select({ id: cellType.id, name: cellType.name }).from(cellType).where(inArray(cellType.id, uuidsOf("cell type")))
@@ -115,8 +133,13 @@ async function currentLabels(db: Executor, rows: { entity: string; entityId: str
   for (const c of cells) labels.set(`cell:${c.id}`, { label: c.serial, href: cellHref(c.serial) });
   for (const b of batches) labels.set(`batch:${b.id}`, { label: b.lotCode, href: batchHref(b.id) });
   for (const r of runs) labels.set(`run:${r.id}`, { label: r.fileName, href: runHref(r.id) });
+  for (const f of flags) labels.set(`flag:${f.id}`, { label: `${kindTitle(f.kind)}, cell ${f.serial}`, href: flagHref(f.id) });
   for (const t of types) labels.set(`cell type:${t.id}`, { label: t.name, href: null });
   for (const u of users) labels.set(`user:${u.id}`, { label: u.name, href: null });
+  for (const row of rows) {
+    if (row.entity === "flag rule") labels.set(`flag rule:${row.entityId}`, { label: "flag rule", href: "/flags/rules" });
+    if (row.entity === "lab settings") labels.set(`lab settings:${row.entityId}`, { label: "lab settings", href: "/settings" });
+  }
   return labels;
 }
 
@@ -138,17 +161,7 @@ export async function listAuditEvents(query: AuditListQuery): Promise<AuditPage>
   const where = auditFilters(query);
   const [rows, [totalRow]] = await Promise.all([
     db
-      .select({
-        id: auditEvent.id,
-        at: auditEvent.at,
-        actorId: auditEvent.actorId,
-        actorName: auditEvent.actorName,
-        action: auditEvent.action,
-        entity: auditEvent.entity,
-        entityId: auditEvent.entityId,
-        before: auditEvent.before,
-        after: auditEvent.after,
-      })
+      .select(eventColumns)
       .from(auditEvent)
       .where(where)
       .orderBy(desc(auditEvent.at), desc(auditEvent.id))
@@ -156,8 +169,26 @@ export async function listAuditEvents(query: AuditListQuery): Promise<AuditPage>
       .offset((query.page - 1) * query.pageSize),
     db.select({ n: count() }).from(auditEvent).where(where),
   ]);
+  return { items: await labelled(db, rows), total: totalRow?.n ?? 0, page: query.page, pageSize: query.pageSize };
+}
+
+const eventColumns = {
+  id: auditEvent.id,
+  at: auditEvent.at,
+  actorId: auditEvent.actorId,
+  actorName: auditEvent.actorName,
+  action: auditEvent.action,
+  entity: auditEvent.entity,
+  entityId: auditEvent.entityId,
+  before: auditEvent.before,
+  after: auditEvent.after,
+};
+
+type EventRow = Omit<AuditEventView, "at" | "entityLabel" | "entityHref"> & { at: Date };
+
+async function labelled(db: Executor, rows: EventRow[]): Promise<AuditEventView[]> {
   const labels = await currentLabels(db, rows);
-  const items = rows.map((row) => {
+  return rows.map((row) => {
     const current = labels.get(`${row.entity}:${row.entityId}`);
     return {
       ...row,
@@ -166,7 +197,20 @@ export async function listAuditEvents(query: AuditListQuery): Promise<AuditPage>
       entityHref: current?.href ?? null,
     };
   });
-  return { items, total: totalRow?.n ?? 0, page: query.page, pageSize: query.pageSize };
+}
+
+/** A cell's record history for its report, oldest first: from its registration to its retirement. */
+export const cellHistoryLimit = 2000;
+
+export async function listCellHistory(cellId: string): Promise<{ events: AuditEventView[]; truncated: boolean }> {
+  const db = await getDb();
+  const rows = await db
+    .select(eventColumns)
+    .from(auditEvent)
+    .where(cellLifeFilter(eq(cell.id, cellId)))
+    .orderBy(asc(auditEvent.at), asc(auditEvent.id))
+    .limit(cellHistoryLimit + 1);
+  return { events: await labelled(db, rows.slice(0, cellHistoryLimit)), truncated: rows.length > cellHistoryLimit };
 }
 
 export interface AuditFilterOptions {

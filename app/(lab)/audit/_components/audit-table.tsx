@@ -8,7 +8,7 @@ import { fetchJson } from "@/lib/api/query-client";
 import { queryKeys, toSearch } from "@/lib/api/query-keys";
 import { useListParams } from "@/lib/api/use-list-params";
 import type { AuditEventView, AuditFilterOptions, AuditPage } from "@/lib/db/queries/audit";
-import { AuditDiff } from "./audit-diff";
+import { AuditDiff } from "@/components/audit/audit-diff";
 
 const defaults = { q: "", entity: "", action: "", actor: "", from: "", to: "", page: "1" };
 const pageSize = 50;

@@ -13,6 +13,7 @@ import { currentUser } from "@/lib/auth/session";
 import { histogramBars } from "@/lib/charts/histogram-bars";
 import { getBatchCellRows, getDischargeCurvePayload } from "@/lib/db/queries/notebook";
 import { getBatch } from "@/lib/db/queries/registry";
+import { batchReportHref } from "@/lib/registry/links";
 import { batchQualityHref } from "@/lib/flags/links";
 import { pageOfCellRows, type BatchCellRow } from "@/lib/notebook/batch-rows";
 import { formatMah } from "@/lib/notebook/format";
@@ -71,6 +72,9 @@ export default async function BatchPage({ params }: Params) {
             <Badge tone={dispositionTone[batch.disposition]}>Decision: {batch.disposition}</Badge>
             <Link href={batchQualityHref(batch.id)} className="no-print rounded-md border border-rule-strong bg-sheet px-3 py-1.5 text-sm font-medium hover:bg-paper">
               Quality figures and decision
+            </Link>
+            <Link href={batchReportHref(batch.id)} className="no-print rounded-md border border-rule-strong bg-sheet px-3 py-1.5 text-sm font-medium hover:bg-paper">
+              Printable lot report
             </Link>
           </>
         }

@@ -14,7 +14,7 @@ import { cellHealthHref } from "@/lib/flags/links";
 import { getCellBySerial, getCellType } from "@/lib/db/queries/registry";
 import { formatDateTime, formatMah, formatMilliohm, formatPercent, missing, withUnit } from "@/lib/notebook/format";
 import { formatTermination } from "@/lib/registry/format";
-import { batchHref } from "@/lib/registry/links";
+import { batchHref, cellReportHref } from "@/lib/registry/links";
 import { identifierField } from "@/lib/validations/fields";
 import { CellRuns } from "./_components/cell-runs";
 
@@ -68,6 +68,9 @@ export default async function CellPage({ params }: Params) {
             <Badge tone={cellStatusTone[cell.status]}>{cell.status}</Badge>
             <Link href={cellHealthHref(cell.serial)} className="no-print rounded-md border border-rule-strong bg-sheet px-3 py-1.5 text-sm font-medium hover:bg-paper">
               Health, fade and flags
+            </Link>
+            <Link href={cellReportHref(cell.serial)} className="no-print rounded-md border border-rule-strong bg-sheet px-3 py-1.5 text-sm font-medium hover:bg-paper">
+              Printable cell report
             </Link>
           </>
         }

@@ -4,8 +4,8 @@ import { notFound } from "next/navigation";
 import { cache } from "react";
 import { z } from "zod";
 import { FlagStateBadge } from "@/components/health/flag-badges";
+import { FlagHistoryTable } from "@/components/health/flag-history-table";
 import { SafetyCautions } from "@/components/safety-cautions";
-import { SignatureLine } from "@/components/signature/signature-line";
 import { Facts } from "@/components/ui/facts";
 import { PageTitle, Panel } from "@/components/ui/panel";
 import { cellClass, headersOf, SimpleTable } from "@/components/ui/simple-table";
@@ -115,19 +115,7 @@ export default async function FlagPage({ params }: Params) {
             <h2 id="flag-history-title" className="text-base font-semibold">
               History
             </h2>
-            <SimpleTable caption="Every step of this flag" headers={headersOf("When", "Step", "Who", "Why")} boxed>
-              {found.transitions.map((t) => (
-                <tr key={t.id}>
-                  <td className={`${cellClass()} whitespace-nowrap`}>{formatDateTime(t.at)}</td>
-                  <td className={cellClass()}>{t.fromState ? `${t.fromState} → ${t.toState}` : "opened"}</td>
-                  <td className={cellClass()}>{t.actorName}</td>
-                  <td className={cellClass()}>
-                    {t.reason}
-                    <SignatureLine signature={t.signature} className="mt-1 block text-xs text-ink-soft" />
-                  </td>
-                </tr>
-              ))}
-            </SimpleTable>
+            <FlagHistoryTable transitions={found.transitions} caption="Every step of this flag" />
             {messages.length ? (
               <>
                 <h2 className="pt-3 text-base font-semibold">Alert mail</h2>

@@ -5,11 +5,11 @@ import { cache } from "react";
 import { z } from "zod";
 import { CapacityHistogramChart } from "@/components/charts/summary-charts";
 import { FlagTable } from "@/components/health/flag-table";
-import { SignatureLine } from "@/components/signature/signature-line";
-import { Badge, dispositionTone, type BadgeTone } from "@/components/ui/badge";
+import { CapabilityFacts, OutlierFacts, QualityCellTable } from "@/components/quality/quality-facts";
+import { LotDecisionList } from "@/components/quality/lot-decision-list";
+import { Badge, dispositionTone } from "@/components/ui/badge";
 import { buttonClass } from "@/components/ui/button";
 import { inputClass } from "@/components/ui/field";
-import { Facts } from "@/components/ui/facts";
 import { PageTitle, Panel } from "@/components/ui/panel";
 import { cellClass, headersOf, SimpleTable } from "@/components/ui/simple-table";
 import { can } from "@/lib/auth/roles";
@@ -17,18 +17,15 @@ import { currentUser } from "@/lib/auth/session";
 import { histogramBars } from "@/lib/charts/histogram-bars";
 import { flagsOf } from "@/lib/db/queries/flags";
 import { getBatchQuality, listLotDecisions, type BatchQuality } from "@/lib/db/queries/quality";
-import { batchCompareHref, batchQualityHref, cellHealthHref } from "@/lib/flags/links";
+import { batchCompareHref, batchQualityHref } from "@/lib/flags/links";
 import { ensureOutboxSender } from "@/lib/mail/sender";
-import { formatDateTime, formatMah, formatMilliohm, formatNumber } from "@/lib/notebook/format";
-import { formatCapacitySpec } from "@/lib/registry/format";
-import { batchHref } from "@/lib/registry/links";
-import type { CapabilityVerdict } from "@/lib/stats";
+import { formatMah, formatMilliohm, formatNumber } from "@/lib/notebook/format";
+import { batchHref, batchReportHref } from "@/lib/registry/links";
 import { matchQuery } from "@/lib/validations/flags";
 import { LotDecisionForm } from "./_components/lot-decision-form";
 
 type Props = { params: Promise<{ batchId: string }>; searchParams: Promise<Record<string, string | string[] | undefined>> };
 
-const verdictTone: Record<CapabilityVerdict, BadgeTone> = { capable: "good", marginal: "warn", "not capable": "bad" };
 
 const qualityOf = cache(async (batchId: string, setSize: number, capTol: number, dcirTol: number | null) =>
   z.uuid().safeParse(batchId).success ? getBatchQuality(batchId, { setSize, capacityTolerance_pct: capTol, dcirTolerance_pct: dcirTol }) : null,
@@ -46,77 +43,6 @@ async function load({ params, searchParams }: Props) {
 export async function generateMetadata(props: Props): Promise<Metadata> {
   const { quality } = await load(props);
   return { title: quality ? `Quality of ${quality.batch.lotCode}` : "Batch quality" };
-}
-
-function CapabilityFacts({ q }: { q: BatchQuality }) {
-  const s = q.report.summary;
-  const c = q.report.capability;
-  const below = q.report.cells.filter((x) => x.belowLsl).length;
-  const above = q.report.cells.filter((x) => x.aboveUsl).length;
-  return (
-    <>
-      <Facts
-        items={[
-          { label: "Cells measured", value: `${s?.n ?? 0} of ${q.delivered.length + q.unmeasured.length}` },
-          { label: "Mean delivered capacity", value: formatMah(s?.mean) },
-          { label: "Standard deviation", value: formatMah(s?.sd) },
-          { label: "Coefficient of variation", value: s?.cv_pct === null || s?.cv_pct === undefined ? "—" : `${formatNumber(s.cv_pct, 2)} %` },
-          { label: "Lowest / highest", value: `${formatMah(s?.min)} / ${formatMah(s?.max)}` },
-          { label: "Capacity spec", value: formatCapacitySpec(q.batch.capacityLslMah, q.batch.capacityUslMah) },
-          { label: "Outside the spec", value: `${below} below${q.batch.capacityUslMah !== null ? `, ${above} above` : ""}` },
-          {
-            label: c ? `Capability (${c.index})` : "Capability",
-            value: c ? (
-              <span className="flex items-center gap-2">
-                <span className="font-semibold tabular-nums">{formatNumber(c.value, 2)}</span>
-                <Badge tone={verdictTone[c.verdict]}>{c.verdict}</Badge>
-              </span>
-            ) : (
-              "Needs at least two measured cells with some spread"
-            ),
-          },
-          ...(c && c.cp !== null ? [{ label: "Cp / Cpk", value: `${formatNumber(c.cp, 2)} / ${formatNumber(c.cpk, 2)}` }] : []),
-          ...(c ? [{ label: "Cpl / Cpu", value: `${formatNumber(c.cpl, 2)} / ${formatNumber(c.cpu, 2)}` }] : []),
-        ]}
-      />
-      <p className="mt-3 text-xs text-ink-soft">
-        NIST/SEMATECH e-Handbook §6.1.6: Cpl = (mean − LSL)/(3s), Cpu = (USL − mean)/(3s), Cp = (USL − LSL)/(6s), Cpk = min(Cpl, Cpu), with s the sample standard deviation of the batch. Below 1 not capable, 1 to 1.33 marginal, 1.33 and above capable. Delivered capacity is each cell&apos;s first capacity measurement.
-      </p>
-    </>
-  );
-}
-
-function OutlierFacts({ q }: { q: BatchQuality }) {
-  const f = q.report.fences;
-  const g = q.report.grubbs;
-  return (
-    <div className="space-y-3 text-sm">
-      {f ? (
-        <p>
-          Tukey fences (e-Handbook §7.1.6): Q1 {formatMah(f.q1)}, Q3 {formatMah(f.q3)}, IQR {formatMah(f.iqr)}; mild outliers outside {formatMah(f.lowerInner)} to {formatMah(f.upperInner)}, extreme outside {formatMah(f.lowerOuter)} to {formatMah(f.upperOuter)}.
-        </p>
-      ) : (
-        <p className="text-ink-soft">No measured cells.</p>
-      )}
-      {g && g.steps.length ? (
-        <SimpleTable caption="Grubbs test steps" headers={headersOf("Step#", "n#", "Suspect", "G#", "Critical#", "Outcome")}>
-          {g.steps.map((step, i) => (
-            <tr key={i}>
-              <td className={cellClass(true)}>{i + 1}</td>
-              <td className={cellClass(true)}>{step.n}</td>
-              <td className={cellClass()}>{formatMah(step.suspectValue)}</td>
-              <td className={cellClass(true)}>{formatNumber(step.g, 3)}</td>
-              <td className={cellClass(true)}>{formatNumber(step.critical, 3)}</td>
-              <td className={cellClass()}>{step.rejected ? "outlier" : "no outlier"}</td>
-            </tr>
-          ))}
-        </SimpleTable>
-      ) : (
-        <p className="text-ink-soft">The Grubbs test needs at least 3 measured cells with some spread.</p>
-      )}
-      <p className="text-xs text-ink-soft">Grubbs (e-Handbook §1.3.5.17), two-sided at α = {g?.alpha ?? 0.05}, repeated after each outlier up to {g?.maxOutliers ?? 3}; it assumes normal data, and the handbook advises against it for 6 or fewer values.</p>
-    </div>
-  );
 }
 
 function MatchedSets({ q, batchId, match }: { q: BatchQuality; batchId: string; match: { setSize: number; capTol: number; dcirTol?: number; ignoreDcir: boolean } }) {
@@ -192,7 +118,6 @@ export default async function BatchQualityPage(props: Props) {
   const batchId = q.batch.id;
   const [flags, decisions] = await Promise.all([flagsOf({ batchId, unclosedOnly: true }), listLotDecisions(batchId)]);
   const bars = q.report.histogram ? histogramBars(q.report.histogram) : null;
-  const byName = new Map(q.delivered.map((d) => [d.serial, d]));
 
   return (
     <>
@@ -209,6 +134,9 @@ export default async function BatchQualityPage(props: Props) {
             <Link href={batchCompareHref([batchId])} className={buttonClass()}>
               Compare with other batches
             </Link>
+            <Link href={batchReportHref(batchId)} className={buttonClass()}>
+              Printable lot report
+            </Link>
           </>
         }
       />
@@ -220,28 +148,7 @@ export default async function BatchQualityPage(props: Props) {
           <div className="space-y-6">
             {user && can(user.role, "lot.decide") ? <LotDecisionForm batchId={batchId} disposition={q.batch.disposition} /> : null}
             <Panel title="Decisions">
-              {decisions.length ? (
-                <ol className="space-y-3 text-sm">
-                  {decisions.map((d) => (
-                    <li key={d.id}>
-                      <span className="font-semibold">
-                        {d.fromDisposition} → {d.disposition}
-                      </span>{" "}
-                      by {d.decidedByName}, {formatDateTime(d.decidedAt)}
-                      <span className="block">{d.reason}</span>
-                      <SignatureLine signature={d.signature} />
-                      {d.figures ? (
-                        <span className="block text-xs text-ink-soft">
-                          In view: n = {d.figures.n}, mean {formatMah(d.figures.mean_mAh)}
-                          {d.figures.capability ? `, ${d.figures.capability.index} ${formatNumber(d.figures.capability.value, 2)} (${d.figures.capability.verdict})` : ""}, {d.figures.unclosedFlags} flag{d.figures.unclosedFlags === 1 ? "" : "s"} not closed
-                        </span>
-                      ) : null}
-                    </li>
-                  ))}
-                </ol>
-              ) : (
-                <p className="text-sm text-ink-soft">No decision yet: the lot is pending.</p>
-              )}
+              <LotDecisionList decisions={decisions} />
             </Panel>
           </div>
         </div>
@@ -254,28 +161,7 @@ export default async function BatchQualityPage(props: Props) {
           <OutlierFacts q={q} />
         </Panel>
         <Panel title="Cells">
-          <SimpleTable caption={`Cells of batch ${q.batch.lotCode} with their delivered capacity`} headers={headersOf("Cell", "Status", "Capacity#", "z#", "Tukey", "Grubbs", "Spec", "Fade per 100 cycles#", "DCIR#")}>
-            {q.report.cells.map((c) => {
-              const d = byName.get(c.serial);
-              return (
-                <tr key={c.serial}>
-                  <td className={cellClass()}>
-                    <Link href={cellHealthHref(c.serial)} className="font-mono text-copper-dark underline-offset-2 hover:underline">
-                      {c.serial}
-                    </Link>
-                  </td>
-                  <td className={cellClass()}>{d?.status ?? "—"}</td>
-                  <td className={cellClass(true)}>{formatMah(c.capacity_mAh)}</td>
-                  <td className={cellClass(true)}>{formatNumber(c.z, 2)}</td>
-                  <td className={cellClass()}>{c.fence ?? "—"}</td>
-                  <td className={cellClass()}>{c.grubbsOutlier ? "outlier" : ""}</td>
-                  <td className={cellClass()}>{c.belowLsl ? "below" : c.aboveUsl ? "above" : "within"}</td>
-                  <td className={cellClass(true)}>{d?.fadePer100Cycles_pctRated === null || d?.fadePer100Cycles_pctRated === undefined ? "—" : `${formatNumber(d.fadePer100Cycles_pctRated, 2)} %`}</td>
-                  <td className={cellClass(true)}>{formatMilliohm(d?.dcir_mOhm)}</td>
-                </tr>
-              );
-            })}
-          </SimpleTable>
+          <QualityCellTable q={q} />
           {q.unmeasured.length ? (
             <p className="mt-3 text-sm text-ink-soft">
               Not measured yet: <span className="font-mono">{q.unmeasured.map((u) => u.serial).join(", ")}</span>

@@ -2,89 +2,26 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { FadeChart } from "@/components/health/fade-chart";
+import { FadeFacts, KneeFacts } from "@/components/health/fade-facts";
 import { FlagTable } from "@/components/health/flag-table";
 import { RaiseFlagForm } from "@/components/health/raise-flag-form";
 import { SafetyCautions } from "@/components/safety-cautions";
 import { Badge, cellStatusTone } from "@/components/ui/badge";
-import { Facts } from "@/components/ui/facts";
 import { PageTitle, Panel } from "@/components/ui/panel";
 import { cellClass, headersOf, SimpleTable } from "@/components/ui/simple-table";
 import { can } from "@/lib/auth/roles";
 import { currentUser } from "@/lib/auth/session";
-import { getCellHealth, type CellHealth } from "@/lib/db/queries/fade";
+import { getCellHealth } from "@/lib/db/queries/fade";
 import { runHref } from "@/lib/flags/links";
 import { serialFromParam } from "@/lib/health/params";
 import { ensureOutboxSender } from "@/lib/mail/sender";
 import { formatDateTime, formatMah, formatMilliohm, formatNumber, formatPercent } from "@/lib/notebook/format";
-import { cellHref } from "@/lib/registry/links";
-import type { Estimate } from "@/lib/stats";
+import { cellHref, cellReportHref } from "@/lib/registry/links";
 
 type Params = { params: Promise<{ serial: string }> };
 
 export async function generateMetadata({ params }: Params): Promise<Metadata> {
   return { title: `Health of ${serialFromParam((await params).serial) ?? "a cell"}` };
-}
-
-const estimate = (e: Estimate, decimals: number, unit: string) =>
-  `${formatNumber(e.value, decimals)} ± ${formatNumber(e.standardError, decimals)} ${unit} (95 % interval ${formatNumber(e.low, decimals)} to ${formatNumber(e.high, decimals)})`;
-
-function FadeFacts({ health }: { health: CellHealth }) {
-  const f = health.fade?.fade;
-  if (!f) return null;
-  const last = f.points[f.points.length - 1];
-  const byCycle = f.byCycle;
-  const eol = byCycle.ok ? byCycle.eol : null;
-  const items = [
-    { label: "Latest capacity", value: formatMah(last?.capacity_mAh) },
-    { label: "State of health, of rated", value: `${formatPercent(last?.sohRated)} of ${health.ratedCapacityMah} mAh` },
-    { label: "State of health, of first measurement", value: `${formatPercent(last?.sohFirst)} of ${formatMah(f.firstCapacity_mAh)}` },
-    { label: "Full cycles counted", value: String(health.measurements.totalCycles) },
-    { label: "End of life at", value: `${health.eolThresholdPct} % of rated = ${formatMah(f.eolCapacity_mAh)}` },
-    {
-      label: "Fade per 100 cycles",
-      value: byCycle.ok ? estimate(byCycle.lossPer100Cycles_mAh, 1, "mAh") : byCycle.reason,
-    },
-    {
-      label: "Fade per 100 cycles, of rated",
-      value: byCycle.ok ? estimate(byCycle.lossPer100Cycles_pctRated, 2, "%") : "—",
-    },
-    { label: "Line fit", value: byCycle.ok ? `R² ${formatNumber(byCycle.rSquared, 3)}, residual SD ${formatMah(byCycle.residualSd_mAh)}, n = ${byCycle.n}` : "—" },
-    {
-      label: "End-of-life cycle",
-      value: eol
-        ? eol.ok
-          ? `${eol.reached ? "reached; line crosses at " : ""}cycle ${formatNumber(eol.cycle, 0)}${eol.interval ? ` (95 % interval ${formatNumber(eol.interval.low, 0)} to ${formatNumber(eol.interval.high, 0)})` : " (interval open: the fade rate's interval includes zero)"}`
-          : eol.reason
-        : "—",
-    },
-    {
-      label: "End-of-life date",
-      value: f.eolDate.ok
-        ? `${f.eolDate.date.slice(0, 10)}${f.eolDate.interval ? ` (${f.eolDate.interval.low.slice(0, 10)} to ${f.eolDate.interval.high.slice(0, 10)})` : ""}, by ${f.eolDate.basis === "cycle-on-date" ? `${formatNumber(f.eolDate.cyclesPerDay, 2)} cycles a day so far` : "capacity against date"}`
-        : f.eolDate.reason,
-    },
-  ];
-  return <Facts items={items} />;
-}
-
-function KneeFacts({ health }: { health: CellHealth }) {
-  const knee = health.fade?.knee;
-  if (!knee) {
-    return <p className="text-sm text-ink-soft">The knee test needs at least 10 capacity points on the cycle axis; this cell has {health.measurements.capacity.length}.</p>;
-  }
-  return (
-    <>
-      <Facts
-        items={[
-          { label: "Verdict", value: knee.significant ? `Knee at cycle ${formatNumber(knee.knee, 0)}` : "No significant knee" },
-          { label: "Knee onset", value: knee.onset === null ? "—" : `cycle ${formatNumber(knee.onset, 0)}` },
-          { label: "Slope before → after", value: `${formatNumber(knee.slopeBefore * 100, 2)} → ${formatNumber(knee.slopeAfter * 100, 2)} mAh per 100 cycles` },
-          { label: "F-test against a straight line", value: `F = ${formatNumber(knee.fStatistic, 2)}, p = ${formatNumber(knee.pValue, 4)}` },
-        ]}
-      />
-      <p className="mt-3 text-xs text-ink-soft">{knee.rule}</p>
-    </>
-  );
 }
 
 export default async function CellHealthPage({ params }: Params) {
@@ -106,7 +43,14 @@ export default async function CellHealthPage({ params }: Params) {
           </Link>
         }
         title="Capacity fade and health"
-        actions={<Badge tone={cellStatusTone[cell.status]}>{cell.status}</Badge>}
+        actions={
+          <>
+            <Badge tone={cellStatusTone[cell.status]}>{cell.status}</Badge>
+            <Link href={cellReportHref(cell.serial)} className="no-print rounded-md border border-rule-strong bg-sheet px-3 py-1.5 text-sm font-medium hover:bg-paper">
+              Printable cell report
+            </Link>
+          </>
+        }
       />
       <div className="space-y-6">
         {health.flags.some((f) => f.kind === "safety-danger" && f.state !== "cleared") || health.dangers.length > 0 ? <SafetyCautions compact /> : null}
