@@ -91,7 +91,7 @@ export function QualityCellTable({ q }: { q: BatchQuality }) {
         return (
           <tr key={c.serial}>
             <td className={cellClass()}>
-              <Link href={cellHealthHref(c.serial)} className="font-mono text-copper-dark underline-offset-2 hover:underline">
+              <Link href={cellHealthHref(c.serial)} className="whitespace-nowrap font-mono text-copper-dark underline-offset-2 hover:underline">
                 {c.serial}
               </Link>
             </td>

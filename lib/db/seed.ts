@@ -61,9 +61,15 @@ export async function seedDemo(db: Database): Promise<SeedResult> {
         .returning({ id: batch.id });
       if (!row) throw new Error("seed: batch missing");
       const serials = Array.from({ length: b.quantity }, (_, i) => `${b.prefix}-${String(i + 1).padStart(4, "0")}`);
-      const inserted = await tx.insert(cell).values(serials.map((serial) => ({ serial, batchId: row.id, cellTypeId: typeId }))).returning({ id: cell.id });
+      const inserted = await tx.insert(cell).values(serials.map((serial) => ({ serial, batchId: row.id, cellTypeId: typeId }))).returning({ id: cell.id, serial: cell.serial });
       cells += inserted.length;
-      await recordAudit(tx, null, { action: "seed", entity: "batch", entityId: row.id, after: { lotCode: b.lotCode, cells: serials.length } });
+      // Each cell's registration is the first line of its record history, as for cells imported by hand.
+      await recordAudit(
+        tx,
+        null,
+        { action: "seed", entity: "batch", entityId: row.id, after: { lotCode: b.lotCode, cells: serials.length } },
+        ...inserted.map((c) => ({ action: "import", entity: "cell", entityId: c.id, after: { serial: c.serial, batchId: row.id, lotCode: b.lotCode } })),
+      );
     }
   });
   return { seeded: true, users: demoUsers.length, cells };

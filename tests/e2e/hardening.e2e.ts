@@ -4,24 +4,14 @@
  * refusing injected inline script; the other security headers are present; a role without a
  * page's capability gets a real 403.
  */
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
 import { defaultApiRateLimits } from "@/lib/auth/api-rate-limit";
 import { demoUsers } from "@/lib/db/seed-users";
-import { startAppServer, type AppServer } from "./support/app-server";
-import { freshPage, openBrowser, signIn } from "./support/browser";
+import { appAndBrowser } from "./support/app-and-browser";
+import { freshPage, signIn } from "./support/browser";
 
-let app: AppServer;
-let browser: Browser;
-
-beforeAll(async () => {
-  app = await startAppServer();
-  browser = await openBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.stop();
-});
+const session = appAndBrowser();
 
 function demo(role: string) {
   const user = demoUsers.find((u) => u.role === role);
@@ -41,7 +31,7 @@ function watchViolations(page: Page): string[] {
 
 describe("content security policy and headers", () => {
   it("sends the policy and the other headers on pages, and a deny-all policy on API answers", async () => {
-    const response = await fetch(`${app.url}/sign-in`);
+    const response = await fetch(`${session.app.url}/sign-in`);
     const policy = response.headers.get("content-security-policy") ?? "";
     expect(policy).toMatch(/script-src 'self' 'nonce-[A-Za-z0-9+/=]{16,}' 'strict-dynamic'/);
     expect(policy).not.toMatch(/script-src[^;]*'unsafe-inline'/);
@@ -50,29 +40,29 @@ describe("content security policy and headers", () => {
     expect(policy).toContain("object-src 'none'");
     // The upload page sends files straight to the local upload service on its own port.
     expect(policy).toMatch(/connect-src 'self' http:\/\/(localhost|127\.0\.0\.1):\d+/);
-    const second = (await fetch(`${app.url}/sign-in`)).headers.get("content-security-policy");
+    const second = (await fetch(`${session.app.url}/sign-in`)).headers.get("content-security-policy");
     expect(second).not.toBe(policy);
 
-    for (const res of [response, await fetch(`${app.url}/api/cells`)]) {
+    for (const res of [response, await fetch(`${session.app.url}/api/cells`)]) {
       expect(res.headers.get("x-content-type-options")).toBe("nosniff");
       expect(res.headers.get("x-frame-options")).toBe("DENY");
       expect(res.headers.get("referrer-policy")).toBe("strict-origin-when-cross-origin");
       expect(res.headers.get("permissions-policy")).toContain("camera=()");
     }
-    expect((await fetch(`${app.url}/api/cells`)).headers.get("content-security-policy")).toBe("default-src 'none'; frame-ancestors 'none'");
+    expect((await fetch(`${session.app.url}/api/cells`)).headers.get("content-security-policy")).toBe("default-src 'none'; frame-ancestors 'none'");
   });
 
   it("lets the app run under the policy: sign in, load a table, sort it, follow a link", async () => {
-    const page = await freshPage(browser);
+    const page = await freshPage(session.browser);
     const violations = watchViolations(page);
     const user = demo("qa-lead");
-    await signIn(page, app.url, user.email, user.password);
-    await page.goto(`${app.url}/batches`);
+    await signIn(page, session.app.url, user.email, user.password);
+    await page.goto(`${session.app.url}/batches`);
     await page.getByRole("link", { name: "P1000-2611-B" }).waitFor();
     await page.getByRole("button", { name: /Lot code/ }).click();
     await page.waitForURL(/sort=lotCode/);
     await page.getByRole("link", { name: "Audit trail" }).click();
-    await page.waitForURL(`${app.url}/audit`);
+    await page.waitForURL(`${session.app.url}/audit`);
     await page.getByRole("table", { name: /Audit trail/ }).getByRole("row").nth(1).waitFor();
     // The demo's stored runs are the newest events; the table must show rows rendered under the policy.
     expect(await page.getByRole("table", { name: /Audit trail/ }).getByRole("row").count()).toBeGreaterThan(1);
@@ -80,21 +70,21 @@ describe("content security policy and headers", () => {
     for (const path of ["/", "/cells", "/cell-types", "/audit", "/sign-out"]) {
       // "load" rather than "networkidle": link prefetches on long lists (the audit trail's run
       // links) can keep the network busy for a while on a loaded machine.
-      await page.goto(`${app.url}${path}`, { waitUntil: "load" });
+      await page.goto(`${session.app.url}${path}`, { waitUntil: "load" });
       await page.locator("main h1").first().waitFor();
     }
     await page.getByRole("button", { name: "Sign out now" }).click();
-    await page.waitForURL(`${app.url}/sign-in`);
+    await page.waitForURL(`${session.app.url}/sign-in`);
     expect(violations).toEqual([]);
     await page.context().close();
   });
 
   it("blocks script that markup injected into a page would run: inline handlers and eval", async () => {
-    const page = await freshPage(browser);
+    const page = await freshPage(session.browser);
     const violations = watchViolations(page);
     const user = demo("technician");
-    await signIn(page, app.url, user.email, user.password);
-    await page.goto(`${app.url}/cells`);
+    await signIn(page, session.app.url, user.email, user.password);
+    await page.goto(`${session.app.url}/cells`);
     const outcome = await page.evaluate(async () => {
       const w = window as unknown as { injected?: boolean };
       // What an HTML injection would carry: an element with an inline event handler.
@@ -123,7 +113,7 @@ describe("API token limits on the running server", () => {
     let limited: Response | undefined;
     // No X-Forwarded-For: the server counts by the loopback address it sees.
     for (let i = 0; i < defaultApiRateLimits.badTokensPerWindow + 1; i++) {
-      const response = await fetch(`${app.url}/api/v1/runs/00000000-0000-4000-8000-000000000000`, { headers: { authorization: `Bearer kp_${"x".repeat(43)}` } });
+      const response = await fetch(`${session.app.url}/api/v1/runs/00000000-0000-4000-8000-000000000000`, { headers: { authorization: `Bearer kp_${"x".repeat(43)}` } });
       statuses.push(response.status);
       limited = response;
     }
@@ -136,11 +126,11 @@ describe("API token limits on the running server", () => {
 
 describe("pages a role may not use", () => {
   it("answers with a 403 status and the not-allowed page inside the app shell", async () => {
-    const page = await freshPage(browser);
+    const page = await freshPage(session.browser);
     const user = demo("technician");
-    await signIn(page, app.url, user.email, user.password);
+    await signIn(page, session.app.url, user.email, user.password);
     for (const path of ["/audit", "/admin/users"]) {
-      const response = await page.goto(`${app.url}${path}`);
+      const response = await page.goto(`${session.app.url}${path}`);
       expect(response?.status(), path).toBe(403);
       await page.getByRole("heading", { name: "This page is not open to your role" }).waitFor();
       // One app shell around the refusal, with the person's own navigation.

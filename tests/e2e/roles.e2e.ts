@@ -1,20 +1,9 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
+import { describe, expect, it } from "vitest";
 import { demoUsers } from "@/lib/db/seed-users";
-import { startAppServer, type AppServer } from "./support/app-server";
-import { freshPage, openBrowser, screenshot, signIn } from "./support/browser";
+import { appAndBrowser } from "./support/app-and-browser";
+import { freshPage, screenshot, signIn } from "./support/browser";
 
-let app: AppServer;
-let browser: Browser;
-
-beforeAll(async () => {
-  app = await startAppServer();
-  browser = await openBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.stop();
-});
+const session = appAndBrowser();
 
 // Written out by hand: what each role should find in the main navigation.
 const expectedNav: Record<string, string[]> = {
@@ -26,8 +15,8 @@ const expectedNav: Record<string, string[]> = {
 
 describe("signing in as each demo role", () => {
   it("sends a signed-out visitor to the sign-in page", async () => {
-    const page = await freshPage(browser);
-    await page.goto(`${app.url}/batches`);
+    const page = await freshPage(session.browser);
+    await page.goto(`${session.app.url}/batches`);
     expect(new URL(page.url()).pathname).toBe("/sign-in");
     await screenshot(page, "sign-in");
     await page.context().close();
@@ -35,17 +24,17 @@ describe("signing in as each demo role", () => {
 
   for (const user of demoUsers) {
     it(`shows the ${user.role} navigation`, async () => {
-      const page = await freshPage(browser);
-      await signIn(page, app.url, user.email, user.password);
-      await page.goto(`${app.url}/batches`);
+      const page = await freshPage(session.browser);
+      await signIn(page, session.app.url, user.email, user.password);
+      await page.goto(`${session.app.url}/batches`);
       const nav = page.getByRole("navigation", { name: "Main" });
       expect(await nav.getByRole("link").allInnerTexts()).toEqual(expectedNav[user.role]);
       expect(await page.getByTestId("role-badge").innerText()).toMatch(new RegExp(user.role === "qa-lead" ? "QA lead" : user.role, "i"));
       await page.getByRole("link", { name: "P1000-2611-B" }).waitFor();
       await screenshot(page, `batches-${user.role}`);
-      await page.goto(`${app.url}/sign-out`);
+      await page.goto(`${session.app.url}/sign-out`);
       await page.getByRole("button", { name: "Sign out now" }).click();
-      await page.waitForURL(`${app.url}/sign-in`);
+      await page.waitForURL(`${session.app.url}/sign-in`);
       await page.context().close();
     });
   }

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
+import { Fragment } from "react";
 import { notFound } from "next/navigation";
-import { CapacityByDateChart } from "@/components/charts/summary-charts";
 import { FadeChart } from "@/components/health/fade-chart";
 import { FadeFacts, KneeFacts } from "@/components/health/fade-facts";
 import { FlagStateBadge } from "@/components/health/flag-badges";
@@ -14,7 +14,6 @@ import { Facts } from "@/components/ui/facts";
 import { cellClass, headersOf, SimpleTable } from "@/components/ui/simple-table";
 import { can } from "@/lib/auth/roles";
 import { currentUser } from "@/lib/auth/session";
-import { capacityByDate } from "@/lib/charts/capacity";
 import { listCellHistory } from "@/lib/db/queries/audit";
 import { getCellHealth } from "@/lib/db/queries/fade";
 import { getFlagDetail } from "@/lib/db/queries/flags";
@@ -56,7 +55,6 @@ export default async function CellReportPage({ params }: Params) {
   const chart = fade?.fade.chart ?? null;
   const knee = fade?.knee?.significant ? { x: fade.knee.knee, y: fade.knee.kneeY } : null;
   const last = fade?.fade.points.at(-1);
-  const byDate = capacityByDate(runs.map((r) => ({ createdAt: r.createdAt, deliveredMah: r.delivered?.afterCharge ? r.delivered.mAh : null })));
   const safetyRuns = runs.filter((r) => (r.safetyFindingsCount ?? 0) > 0).length;
 
   return (
@@ -137,37 +135,36 @@ export default async function CellReportPage({ params }: Params) {
         ) : (
           <p className="text-sm">No capacity measurement yet: capacity points come from capacity-check and cycle-life runs.</p>
         )}
-        {byDate.x.length > 1 ? (
-          <div className="mt-4">
-            <CapacityByDateChart x={byDate.x} y={byDate.y} ratedMah={type?.ratedCapacityMah ?? null} />
-          </div>
-        ) : null}
       </ReportSection>
 
       <ReportSection title="Runs">
         {runs.length ? (
-          <SimpleTable caption={`Runs of cell ${cell.serial}, newest first`} headers={headersOf("Uploaded", "Purpose", "Status", "Charged#", "Delivered#", "Findings#", "File and SHA-256")}>
+          <SimpleTable caption={`Runs of cell ${cell.serial}, newest first`} headers={headersOf("Uploaded", "Purpose", "Status", "Charged#", "Delivered#", "Findings#")}>
             {runs.map((r) => (
-              <tr key={r.id} className="align-top">
-                <td className={`${cellClass()} whitespace-nowrap`}>
-                  <Link href={runHref(r.id)} className="text-copper-dark underline-offset-2 hover:underline">
-                    {formatUtc(r.createdAt)}
-                  </Link>
-                  <span className="block text-xs text-ink-soft">{r.uploadedByName ?? "—"}</span>
-                </td>
-                <td className={cellClass()}>{r.purpose}</td>
-                <td className={cellClass()}>{r.status}</td>
-                <td className={cellClass(true)}>{formatMah(r.chargedMah)}</td>
-                <td className={cellClass(true)}>{r.delivered ? formatMah(r.delivered.mAh) : formatMah(r.dischargedMah)}</td>
-                <td className={cellClass(true)}>
-                  {r.findingsCount ?? "—"}
-                  {r.safetyFindingsCount ? <span className="block text-xs font-semibold text-danger">{r.safetyFindingsCount} safety</span> : null}
-                </td>
-                <td className={`${cellClass()} text-xs`}>
-                  {r.fileName}
-                  <span className="block break-all font-mono text-[10px] text-ink-soft">{r.sha256}</span>
-                </td>
-              </tr>
+              <Fragment key={r.id}>
+                <tr className="align-top">
+                  <td className="px-3 pt-2 whitespace-nowrap">
+                    <Link href={runHref(r.id)} className="text-copper-dark underline-offset-2 hover:underline">
+                      {formatUtc(r.createdAt)}
+                    </Link>
+                    <span className="block text-xs text-ink-soft">{r.uploadedByName ?? "—"}</span>
+                  </td>
+                  <td className="px-3 pt-2">{r.purpose}</td>
+                  <td className="px-3 pt-2">{r.status}</td>
+                  <td className="px-3 pt-2 text-right tabular-nums">{formatMah(r.chargedMah)}</td>
+                  <td className="px-3 pt-2 text-right tabular-nums">{r.delivered ? formatMah(r.delivered.mAh) : formatMah(r.dischargedMah)}</td>
+                  <td className="px-3 pt-2 text-right tabular-nums">
+                    {r.findingsCount ?? "—"}
+                    {r.safetyFindingsCount ? <span className="block text-xs font-semibold text-danger">{r.safetyFindingsCount} safety</span> : null}
+                  </td>
+                </tr>
+                {/* The file and its hash on a line of their own: a 64-digit hash does not fit a column. */}
+                <tr>
+                  <td colSpan={6} className={`${cellClass()} pt-0 text-xs text-ink-soft [overflow-wrap:anywhere]`}>
+                    {r.fileName} · SHA-256 <span className="font-mono">{r.sha256}</span>
+                  </td>
+                </tr>
+              </Fragment>
             ))}
           </SimpleTable>
         ) : (
