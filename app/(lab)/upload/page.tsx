@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { Forbidden } from "@/components/forbidden";
+import { forbidden } from "next/navigation";
 import { SafetyCautions } from "@/components/safety-cautions";
 import { PageTitle } from "@/components/ui/panel";
 import { can } from "@/lib/auth/roles";
@@ -12,7 +12,8 @@ export const metadata: Metadata = { title: "Upload logs" };
 
 export default async function UploadPage() {
   const user = await currentUser();
-  if (!user || !can(user.role, "run.upload")) return <Forbidden />;
+  // A role without the capability gets a real 403 and the not-allowed page, not a 200.
+  if (!user || !can(user.role, "run.upload")) forbidden();
   const batches = (await listBatchOptions()).map(({ id, lotCode }) => ({ id, lotCode }));
   const savedMaps = (await listColumnMaps(user.id)).map(({ id, name, ownerName, map }) => ({ id, name, ownerName, map }));
   return (
