@@ -1,5 +1,6 @@
 "use client";
 
+import { useEffect, useRef } from "react";
 import { SelectField, TextField } from "@/components/ui/field";
 import { signatureMeaningLabels, signatureMeanings, type SignatureMeaning } from "@/lib/validations/signature";
 
@@ -16,8 +17,17 @@ interface SignatureFieldsProps {
  * the form's reset after each submission empties it: it is never kept or shown again.
  */
 export function SignatureFields({ statement, meaning, onMeaningChange, errors }: SignatureFieldsProps) {
+  const box = useRef<HTMLFieldSetElement>(null);
+  // That reset puts a select back to the option its markup marks as selected, and React marks only
+  // the first render's (a known React 19 behaviour): mark the current meaning, so a signature refused
+  // for a wrong password keeps the meaning chosen instead of posting the first one on the next try.
+  useEffect(() => {
+    box.current?.querySelectorAll<HTMLOptionElement>('select[name="meaning"] option').forEach((o) => {
+      o.defaultSelected = o.value === meaning;
+    });
+  }, [meaning]);
   return (
-    <fieldset className="space-y-3 rounded-md border border-rule-strong p-3">
+    <fieldset ref={box} className="space-y-3 rounded-md border border-rule-strong p-3">
       <legend className="px-1 text-sm font-medium text-ink">Your signature</legend>
       <p className="text-xs text-ink-soft">{statement}</p>
       <SelectField

@@ -25,7 +25,10 @@ function steppedMessage(r: Stepped): string {
 /** The next step of a flag: one of the steps its state allows, with the reason recorded in its history. */
 export function TransitionForm({ flagId, state }: { flagId: string; state: FlagState }) {
   const steps = flagSteps[state];
-  const [to, setTo] = useState<FlagState | "">(steps[0] ?? "");
+  const [picked, setTo] = useState<FlagState | "">(steps[0] ?? "");
+  // After a step the page hands down the new state while this form stays mounted: a pick the
+  // new state no longer allows (e.g. "acknowledge" once acknowledged) falls back to its first step.
+  const to = picked && steps.includes(picked) ? picked : (steps[0] ?? "");
   const [reason, setReason] = useState("");
   const [meaning, setMeaning] = useState<SignatureMeaning>("reviewed");
   const [result, submit, pending] = useActionState<ActionResult<Stepped> | null, FormData>(async (_prev, form) => {
@@ -43,9 +46,11 @@ export function TransitionForm({ flagId, state }: { flagId: string; state: FlagS
         <fieldset>
           <legend className="text-sm font-medium text-ink">Step</legend>
           <div className="mt-1 space-y-1">
+            {/* Uncontrolled, with the choice as their default: React resets the form after each
+                submission (which empties the password), and a reset puts radios back to their default. */}
             {steps.map((s) => (
               <label key={s} className="flex items-center gap-2 text-sm">
-                <input type="radio" name="to" value={s} checked={to === s} onChange={() => setTo(s)} />
+                <input type="radio" name="to" value={s} defaultChecked={to === s} onChange={() => setTo(s)} />
                 {stepLabels[s]}
                 {s === "cell retired" ? <span className="text-xs text-ink-soft">(closes every flag of the cell and marks it retired)</span> : null}
               </label>

@@ -48,7 +48,8 @@ export function LotDecisionForm({ batchId, disposition }: { batchId: string; dis
                   type="radio"
                   name="disposition"
                   value={c.value}
-                  checked={choice === c.value}
+                  // Uncontrolled with the choice as default, so the reset after a refused signature keeps it.
+                  defaultChecked={choice === c.value}
                   onChange={() => {
                     setChoice(c.value);
                     setMeaning(c.meaning);
