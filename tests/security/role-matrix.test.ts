@@ -89,6 +89,7 @@ const matrix: Record<string, Record<string, ActionRow | RouteRow>> = {
     POST: { kind: "route", allowed: "public", url: "/api/auth/sign-out" },
   },
   "api/audit/route.ts": { GET: { kind: "route", allowed: ["qa-lead", "admin"], url: "/api/audit" } },
+  "api/audit/export/route.ts": { GET: { kind: "route", allowed: ["qa-lead", "admin"], url: "/api/audit/export" } },
   "api/flags/route.ts": { GET: { kind: "route", allowed: all, url: "/api/flags?state=all" } },
   "api/batches/route.ts": { GET: { kind: "route", allowed: all, url: "/api/batches" } },
   "api/batches/export/route.ts": { GET: { kind: "route", allowed: all, url: "/api/batches/export" } },

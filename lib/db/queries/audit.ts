@@ -3,7 +3,7 @@ import { and, asc, count, desc, eq, gte, ilike, inArray, isNull, lt, or, sql, ty
 import { flagHref, runHref } from "@/lib/flags/links";
 import { kindTitle } from "@/lib/flags/vocabulary";
 import { batchHref, cellHref } from "@/lib/registry/links";
-import { systemActor, type AuditListQuery } from "@/lib/validations/audit";
+import { systemActor, type AuditExportQuery, type AuditListQuery } from "@/lib/validations/audit";
 import { getDb, type Executor } from "../client";
 import { auditEvent, batch, cell, cellType, flag, run, user } from "../schema";
 
@@ -99,7 +99,7 @@ function textFilter(text: string): SQL | undefined {
   );
 }
 
-function auditFilters(query: AuditListQuery): SQL | undefined {
+function auditFilters(query: AuditListQuery | AuditExportQuery): SQL | undefined {
   const filters: (SQL | undefined)[] = [];
   if (query.q) filters.push(textFilter(query.q));
   if (query.entity) filters.push(eq(auditEvent.entity, query.entity));
@@ -236,4 +236,20 @@ export async function auditFilterOptions(): Promise<AuditFilterOptions> {
     actions: actions.map((a) => a.v),
     actors: actors.map((a) => (a.id === null ? { id: systemActor, name: "The app itself (system)" } : { id: a.id, name: a.name ?? a.id })),
   };
+}
+
+/**
+ * Every event the audit page's filters select, oldest first, for a CSV export: one query, so
+ * events added meanwhile cannot shift or repeat rows. Answers null when there are more than `limit`.
+ */
+export async function auditEventsForExport(query: AuditExportQuery, limit: number): Promise<AuditEventView[] | null> {
+  const db = await getDb();
+  const rows = await db
+    .select(eventColumns)
+    .from(auditEvent)
+    .where(auditFilters(query))
+    .orderBy(asc(auditEvent.at), asc(auditEvent.id))
+    .limit(limit + 1);
+  if (rows.length > limit) return null;
+  return labelled(db, rows);
 }

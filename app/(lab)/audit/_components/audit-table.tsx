@@ -3,6 +3,7 @@
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import { DataTable, Pager, type Column } from "@/components/data-table";
+import { DownloadCsvLink } from "@/components/download-csv-link";
 import { inputClass } from "@/components/ui/field";
 import { fetchJson } from "@/lib/api/query-client";
 import { queryKeys, toSearch } from "@/lib/api/query-keys";
@@ -132,6 +133,11 @@ export function AuditTable({ options }: { options: AuditFilterOptions }) {
           to
           <input type="date" value={get("to")} onChange={(e) => set({ to: e.target.value })} className={`${inputClass} w-auto`} />
         </label>
+        <DownloadCsvLink
+          href="/api/audit/export"
+          filters={{ q: params.q, entity: params.entity, action: params.action, actor: params.actor, since: params.since, until: params.until }}
+          label="Download these events (CSV)"
+        />
       </div>
       <DataTable
         caption="Audit trail, newest first"
