@@ -11,7 +11,9 @@
  *   finite-difference ΔQ/ΔV on that grid; the result is smoothed with a Gaussian of σ = 2 bins
  *   (10 mV), truncated at ±3σ (bin width and kernel are our choices within the 5–10 mV the notes give).
  * Memory is bounded: fixed decimation buffers, at most 1,024 candidate points and one 1,000-bin
- * histogram for the run being read, and curves for at most the first 100 and last 100 steps.
+ * histogram for the run being read, and curves for at most 400 steps: the first 100, the last 100,
+ * and up to 200 evenly spaced through the middle (every step while they fit; then every 2nd,
+ * every 4th, … so a long cycle-life log still shows how the curves change over its whole life).
  */
 import { MinMaxDecimator, reduceWithExact } from "./decimate";
 import { ringMask, type SampleRing } from "./ring";
@@ -23,6 +25,9 @@ const maxSwitchPoints = 200;
 const runCurveCapacity = 1024;
 const curvePointsPerStep = 400;
 const keptCurvesEachEnd = 100;
+const keptCurvesInMiddle = 200;
+/** Middle curves show the trend across life; half the points keep the page's payload near what the two ends alone cost. */
+const middleCurvePoints = 200;
 export const dqdvBin_V = 0.005;
 const histBins = 1000;
 const smoothSigmaBins = 2;
@@ -237,7 +242,7 @@ interface StoredCurves {
   ica: IncrementalCapacityCurve | null;
 }
 
-/** Collects the per-step curves of the whole log, keeping the first and last 100 steps that have one. */
+/** Collects the per-step curves of the whole log: the first and last 100 steps that have one, and a thinned middle. */
 export class PlotCollector {
   private readonly vTrace = new MinMaxDecimator();
   private readonly iTrace = new MinMaxDecimator();
@@ -246,6 +251,10 @@ export class PlotCollector {
   private readonly switches = new PinnedPoints(maxSwitchPoints);
   private readonly first: StoredCurves[] = [];
   private readonly last: StoredCurves[] = [];
+  private middle: StoredCurves[] = [];
+  /** Keep every `middleStride`-th step that leaves the last-100 window; doubles whenever the middle is full. */
+  private middleStride = 1;
+  private middleSeen = 0;
   private hasTemp = false;
 
   constructor(private readonly oneC: number) {}
@@ -286,14 +295,27 @@ export class PlotCollector {
     if (this.first.length < keptCurvesEachEnd) this.first.push(stored);
     else {
       this.last.push(stored);
-      if (this.last.length > keptCurvesEachEnd) this.last.shift();
+      const leaving = this.last.length > keptCurvesEachEnd ? this.last.shift() : undefined;
+      if (leaving) this.keepInMiddle(leaving);
+    }
+  }
+
+  private keepInMiddle(stored: StoredCurves): void {
+    const seen = this.middleSeen++;
+    if (seen % this.middleStride !== 0) return;
+    const capacity = stored.capacity ? { ...stored.capacity, ...thinCurve(stored.capacity.capacity_mAh, stored.capacity.voltage_V, middleCurvePoints) } : null;
+    this.middle.push({ ...stored, capacity });
+    if (this.middle.length > keptCurvesInMiddle) {
+      // The kept ones are the multiples of the stride; every other one of them is a multiple of twice it.
+      this.middle = this.middle.filter((_, k) => k % 2 === 0);
+      this.middleStride *= 2;
     }
   }
 
   build(steps: { step: number; cycle: number; kind: StepKind; start_s: number }[], switchCycles: { time_s: number; voltage_V: number; cycle: number }[]): PlotSeries {
     const cycleOfStep = new Map<number, number>();
     for (const s of steps) cycleOfStep.set(s.step, s.cycle);
-    const stored = [...this.first, ...this.last];
+    const stored = [...this.first, ...this.middle, ...this.last];
     const capacity_curves: StepCurve[] = [];
     const incremental_capacity: IncrementalCapacityCurve[] = [];
     for (const s of stored) {

@@ -24,7 +24,9 @@ const signingStatement =
 /** The QA lead's decision, made beside the figures it rests on; the server records those figures with it. */
 export function LotDecisionForm({ batchId, disposition }: { batchId: string; disposition: string }) {
   const options = choices.filter((c) => c.value !== disposition);
-  const [choice, setChoice] = useState<string>(options[0]?.value ?? "");
+  const [picked, setPicked] = useState<string>(options[0]?.value ?? "");
+  // After a decision the lot's disposition changes and the one just made is no longer offered: choose again.
+  const choice = options.some((c) => c.value === picked) ? picked : "";
   const [meaning, setMeaning] = useState<SignatureMeaning>(options[0]?.meaning ?? "reviewed");
   const [reason, setReason] = useState("");
   type Decided = { id: number; disposition: string; signature: { signerName: string; signedAt: Date; meaning: SignatureMeaning } };
@@ -51,7 +53,7 @@ export function LotDecisionForm({ batchId, disposition }: { batchId: string; dis
                   // Uncontrolled with the choice as default, so the reset after a refused signature keeps it.
                   defaultChecked={choice === c.value}
                   onChange={() => {
-                    setChoice(c.value);
+                    setPicked(c.value);
                     setMeaning(c.meaning);
                   }}
                 />
