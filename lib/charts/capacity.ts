@@ -59,12 +59,12 @@ export function capacityByCycleOfRuns(runs: readonly { label: string; cycles: re
 }
 
 /**
- * Delivered capacity of each run against the date it was uploaded, oldest first; x in UNIX
+ * Delivered capacity of each run against the time its test ended (stated, else the upload), oldest first; x in UNIX
  * seconds (uPlot's time scale). Runs without a delivered capacity are left out.
  */
-export function capacityByDate(runs: readonly { createdAt: string | Date; deliveredMah: number | null }[]): { x: number[]; y: number[] } {
+export function capacityByDate(runs: readonly { at: string | Date; deliveredMah: number | null }[]): { x: number[]; y: number[] } {
   const points = runs
-    .map((r) => ({ t: new Date(r.createdAt).getTime() / 1000, y: r.deliveredMah }))
+    .map((r) => ({ t: new Date(r.at).getTime() / 1000, y: r.deliveredMah }))
     .filter((p): p is { t: number; y: number } => Number.isFinite(p.t) && p.y !== null && Number.isFinite(p.y))
     .sort((a, b) => a.t - b.t);
   return { x: points.map((p) => p.t), y: points.map((p) => p.y) };

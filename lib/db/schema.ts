@@ -239,6 +239,11 @@ export const run = pgTable(
     /** Highest analysis version stored; null until the first analysis completes. */
     latestVersion: integer("latest_version"),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    /**
+     * When the test ended, as the uploader states it; null means "just before the upload".
+     * Logs are often uploaded days after the bench finished, and fade by date needs the test's time.
+     */
+    testEndedAt: timestamp("test_ended_at", { withTimezone: true }),
     startedAt: timestamp("started_at", { withTimezone: true }),
     finishedAt: timestamp("finished_at", { withTimezone: true }),
   },

@@ -17,19 +17,33 @@ interface DemoRun {
   serial: string;
   purpose: RunPurpose;
   note: string;
+  /** When the invented test ended: the demo's logs were "uploaded" long after their benches finished. */
+  testEndedAt: Date;
 }
+
+/** The demo lots' arrival days (lib/db/seed.ts); each cell's incoming check follows within days. */
+const lotArrival: Record<string, string> = { "lot-PA": "2026-10-06", "lot-PB": "2026-11-03" };
+/** Cells checked at once on the demo lab's bench channels. */
+const channels = 8;
+
+/** Day `days` after the ISO date, at `hour` UTC. */
+const dayAfter = (isoDate: string, days: number, hour: number) => new Date(Date.parse(`${isoDate}T00:00:00Z`) + days * 86_400_000 + hour * 3_600_000);
 
 /** The demo's stored runs: every cell of two lots checked on arrival, one cycle-life test, one resistance test. */
 function demoRuns(): DemoRun[] {
   const runs: DemoRun[] = [];
   for (const lot of ["lot-PA", "lot-PB"]) {
-    for (const file of fs.readdirSync(path.join(logsDir, lot)).sort()) {
-      const serial = file.replace(/-incoming-capacity\.csv$/, "");
-      runs.push({ file: path.join(lot, file), serial, purpose: "capacity check", note: "Demo data (invented): incoming capacity check, 0.2C discharge after a CC-CV charge." });
-    }
+    const arrival = lotArrival[lot] ?? "2026-10-01";
+    fs.readdirSync(path.join(logsDir, lot))
+      .sort()
+      .forEach((file, k) => {
+        const serial = file.replace(/-incoming-capacity\.csv$/, "");
+        const testEndedAt = dayAfter(arrival, 2 + Math.floor(k / channels), 8 + (k % channels));
+        runs.push({ file: path.join(lot, file), serial, purpose: "capacity check", note: "Demo data (invented): incoming capacity check, 0.2C discharge after a CC-CV charge.", testEndedAt });
+      });
   }
-  runs.push({ file: "PB-0019-cycle-life.tsv", serial: "PB-0019", purpose: "cycle life", note: "Demo data (invented): 75 cycles at 1C." });
-  runs.push({ file: "PA-0003-internal-resistance.csv", serial: "PA-0003", purpose: "internal resistance", note: "Demo data (invented): 0.2 It for 10 s, then 1 It for 1 s." });
+  runs.push({ file: "PB-0019-cycle-life.tsv", serial: "PB-0019", purpose: "cycle life", note: "Demo data (invented): 75 cycles at 1C.", testEndedAt: dayAfter("2026-11-03", 17, 14) });
+  runs.push({ file: "PA-0003-internal-resistance.csv", serial: "PA-0003", purpose: "internal resistance", note: "Demo data (invented): 0.2 It for 10 s, then 1 It for 1 s.", testEndedAt: dayAfter("2026-10-06", 6, 11) });
   return runs;
 }
 
@@ -51,7 +65,7 @@ export async function seedDemoRuns(db: Database, onProgress: (done: number, tota
     const stored = await storeFile(new Blob([new Uint8Array(bytes)]), name, name.endsWith(".tsv") ? "text/tab-separated-values" : "text/csv");
     await admitStoredFile(
       { key: stored.key, name, size: stored.size },
-      { cellSerial: demo.serial, newCell: { batchId: undefined, cellTypeId: undefined }, mayCreateCell: false, purpose: demo.purpose, ambientTempC: 23, operatorNote: demo.note, columnMap: null },
+      { cellSerial: demo.serial, newCell: { batchId: undefined, cellTypeId: undefined }, mayCreateCell: false, purpose: demo.purpose, ambientTempC: 23, testEndedAt: demo.testEndedAt, operatorNote: demo.note, columnMap: null },
       "api",
       actor,
     );

@@ -36,7 +36,8 @@ export interface RunInput {
   runId: string;
   analysisId: string;
   purpose: string;
-  createdAt: Date;
+  /** When the test ended: as the uploader stated it, else the upload time. Dates and order follow it. */
+  endedAt: Date;
   durationS: number | null;
   cycles: RunCycleInput[];
   dcir: DcirInput[];
@@ -105,8 +106,8 @@ export function median(values: readonly number[]): number {
 }
 
 function pointDate(run: RunInput, cycle: RunCycleInput): string {
-  const end = run.createdAt.getTime();
-  if (run.durationS === null || cycle.dischargeEndS === null) return run.createdAt.toISOString();
+  const end = run.endedAt.getTime();
+  if (run.durationS === null || cycle.dischargeEndS === null) return run.endedAt.toISOString();
   const before = Math.max(0, run.durationS - cycle.dischargeEndS);
   return new Date(end - before * 1000).toISOString();
 }
@@ -120,7 +121,7 @@ function runResistance(run: RunInput): RunResistance | null {
   return {
     runId: run.runId,
     analysisId: run.analysisId,
-    at: run.createdAt.toISOString(),
+    at: run.endedAt.toISOString(),
     method,
     median_mOhm: median(values.map((d) => d.resistance_mOhm)),
     n: values.length,
@@ -139,7 +140,7 @@ function runEfficiency(run: RunInput): RunEfficiency | null {
   return {
     runId: run.runId,
     analysisId: run.analysisId,
-    at: run.createdAt.toISOString(),
+    at: run.endedAt.toISOString(),
     purpose: run.purpose,
     min: worst.coulombicEfficiency as number,
     cycle: worst.cycle,
@@ -147,9 +148,9 @@ function runEfficiency(run: RunInput): RunEfficiency | null {
   };
 }
 
-/** Builds a cell's measurements from its analysed runs (any order; they are sorted by upload time). */
+/** Builds a cell's measurements from its analysed runs (any order; they are sorted by when their tests ended). */
 export function cellMeasurements(runs: readonly RunInput[]): CellMeasurements {
-  const ordered = [...runs].sort((a, b) => a.createdAt.getTime() - b.createdAt.getTime() || a.runId.localeCompare(b.runId));
+  const ordered = [...runs].sort((a, b) => a.endedAt.getTime() - b.endedAt.getTime() || a.runId.localeCompare(b.runId));
   const capacity: CellCapacityPoint[] = [];
   const resistance: RunResistance[] = [];
   const efficiency: RunEfficiency[] = [];

@@ -13,6 +13,7 @@ export function runJson(r: RunListItem) {
     purpose: r.purpose,
     source: r.source,
     ambient_temperature_C: r.ambientTempC,
+    test_ended_at: r.testEndedAt?.toISOString() ?? null,
     operator_note: r.operatorNote,
     file: { name: r.fileName, size_bytes: r.fileSize, sha256: r.sha256 },
     uploaded_by: r.uploadedByName,

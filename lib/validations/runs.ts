@@ -35,12 +35,28 @@ export const columnMapField = z.preprocess((v) => {
   }
 }, columnMapSchema);
 
+/** Earlier than this is a typing or clock error, not a lithium cell test we could be shown. */
+const earliestTestEnd = Date.UTC(1991, 0, 1);
+/** Bench PCs' clocks drift; a few minutes ahead is still "now". */
+const clockSlackMs = 10 * 60 * 1000;
+
+/** When the test ended: an ISO 8601 instant with its offset (the browser adds the reader's own). */
+export const testEndedAtField = z.preprocess(
+  blankToUndefined,
+  z.iso
+    .datetime({ offset: true, error: "Give the time the test ended as a date and time, e.g. 2026-11-30T16:45:00+01:00" })
+    .refine((v) => Date.parse(v) >= earliestTestEnd, { error: "The test cannot have ended before 1991" })
+    .refine((v) => Date.parse(v) <= Date.now() + clockSlackMs, { error: "The test cannot have ended in the future; check the date and the time zone" })
+    .optional(),
+);
+
 /** The fields that go with a bench log, from the upload page or the bench API. */
 export const runUploadInput = z
   .object({
     cellSerial: identifierField("Cell serial"),
     purpose: z.enum(runPurposes, { error: "Choose a test purpose" }),
     ambientTempC: optionalNumberField("Ambient temperature", { min: -60, max: 100 }),
+    testEndedAt: testEndedAtField,
     operatorNote: optionalTextField("Operator note", 2000),
     columnMapId: optionalUuid("Choose a saved column map"),
     columnMap: z.preprocess(blankToUndefined, columnMapField.optional()),
@@ -80,6 +96,7 @@ export const benchLogInput = z
     cellSerial: z.string(),
     purpose: z.enum(runPurposes),
     ambientTempC: z.number().optional(),
+    testEndedAt: z.string().optional(),
     operatorNote: z.string().optional(),
     columnMapId: z.string().optional(),
     columnMap: columnMapSchema.optional(),

@@ -48,9 +48,9 @@ describe("capacity series", () => {
     const x2 = Date.UTC(2026, 11, 1, 9, 0) / 1000;
     expect(
       capacityByDate([
-        { createdAt: "2026-12-01T09:00:00Z", deliveredMah: 1080 },
-        { createdAt: new Date("2026-11-20T08:15:00Z"), deliveredMah: 1093.4 },
-        { createdAt: "2026-11-25T00:00:00Z", deliveredMah: null },
+        { at: "2026-12-01T09:00:00Z", deliveredMah: 1080 },
+        { at: new Date("2026-11-20T08:15:00Z"), deliveredMah: 1093.4 },
+        { at: "2026-11-25T00:00:00Z", deliveredMah: null },
       ]),
     ).toEqual({ x: [x1, x2], y: [1093.4, 1080] });
   });

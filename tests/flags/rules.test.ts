@@ -19,7 +19,7 @@ const full = (cycle: number, discharged: number, ce: number | null = 0.999, endS
 });
 
 function runOf(id: string, purpose: string, day: number, cycles: RunCycleInput[], dcir: RunInput["dcir"] = [], durationS: number | null = null): RunInput {
-  return { runId: id, analysisId: `a-${id}`, purpose, createdAt: new Date(t0 + day * 86_400_000), durationS, cycles, dcir };
+  return { runId: id, analysisId: `a-${id}`, purpose, endedAt: new Date(t0 + day * 86_400_000), durationS, cycles, dcir };
 }
 
 function cellOf(id: string, runs: RunInput[], extra: Partial<CellInput> = {}): CellInput {

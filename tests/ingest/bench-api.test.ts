@@ -23,7 +23,7 @@ import { fetchCellRuns, fetchRaw, fetchRun, postLog } from "./support/bench-api"
 
 vi.mock("next/cache", () => ({ revalidatePath: vi.fn(), revalidateTag: vi.fn(), updateTag: vi.fn() }));
 
-const fields = { cellSerial: "KP-API-0001", purpose: "capacity check", ambientTempC: "22.5", operatorNote: "posted by the bench script" };
+const fields = { cellSerial: "KP-API-0001", purpose: "capacity check", ambientTempC: "22.5", testEndedAt: "2026-11-30T16:45:00+01:00", operatorNote: "posted by the bench script" };
 
 let service: UploadService;
 let technician: SignedInUser;
@@ -100,7 +100,7 @@ describe("POST /api/v1/runs and the reads", () => {
     const got = await fetchRun({ token }, run.id);
     expect(got.status).toBe(200);
     const body = (await got.json()) as { run: Record<string, unknown>; analysis: { version: number }; report: Record<string, unknown> };
-    expect(body.run).toMatchObject({ id: run.id, status: "complete", purpose: "capacity check", ambient_temperature_C: 22.5, operator_note: "posted by the bench script", latest_version: 1 });
+    expect(body.run).toMatchObject({ id: run.id, status: "complete", purpose: "capacity check", ambient_temperature_C: 22.5, test_ended_at: "2026-11-30T15:45:00.000Z", operator_note: "posted by the bench script", latest_version: 1 });
     expect(body.run.file).toEqual({ name: "bench4-capacity.csv", size_bytes: Buffer.byteLength(text), sha256: createHash("sha256").update(text).digest("hex") });
     expect(body.analysis.version).toBe(1);
 
@@ -171,6 +171,12 @@ describe("POST /api/v1/runs and the reads", () => {
     expect(await missing.json()).toMatchObject({ fieldErrors: { purpose: expect.any(Array) } });
     const binary = await postLog({ token }, fields, { name: "scope.bin", text: new Uint8Array([1, 2, 3]), type: "application/octet-stream" });
     expect(binary.status).toBe(400);
+    // A test end in the future, or without its offset from UTC, is a mistake to fix, not a time to guess.
+    for (const testEndedAt of ["2999-01-01T00:00:00Z", "2026-11-30T16:45:00"]) {
+      const wrongTime = await postLog({ token }, { ...fields, testEndedAt }, { name: "a.csv", text: "t,v,i\n" });
+      expect(wrongTime.status, testEndedAt).toBe(400);
+      expect(await wrongTime.json()).toMatchObject({ fieldErrors: { testEndedAt: [expect.stringMatching(/future|date and time/)] } });
+    }
     const newCell = await postLog({ token }, { ...fields, cellSerial: "KP-API-UNKNOWN" }, { name: "a.csv", text: "t,v,i\n" });
     expect(newCell.status).toBe(400);
     expect(await newCell.json()).toMatchObject({ error: expect.stringMatching(/not registered/) });

@@ -18,7 +18,7 @@ async function* bytes(text: string): AsyncIterable<Uint8Array> {
  */
 export async function storeAnalysedRun(
   actor: AuditActor,
-  options: { serial: string; csv: string; purpose: RunPurpose; fileName?: string },
+  options: { serial: string; csv: string; purpose: RunPurpose; fileName?: string; testEndedAt?: Date },
 ): Promise<{ runId: string; cellId: string; version: number }> {
   const sha256 = createHash("sha256").update(options.csv).digest("hex");
   const { runId, cellId } = await recordRun(
@@ -28,6 +28,7 @@ export async function storeAnalysedRun(
       source: "api",
       purpose: options.purpose,
       ambientTempC: 23,
+      testEndedAt: options.testEndedAt ?? null,
       operatorNote: "",
       fileKey: `test/${sha256}`,
       fileName: options.fileName ?? `${options.serial}-${sha256.slice(0, 8)}.csv`,

@@ -36,7 +36,7 @@ export async function loadCellRuns(cellIds: readonly string[], exec?: Executor):
       runId: run.id,
       cellId: run.cellId,
       purpose: run.purpose,
-      createdAt: run.createdAt,
+      endedAt: sql<Date>`coalesce(${run.testEndedAt}, ${run.createdAt})`.mapWith(run.createdAt),
       analysisId: analysisVersion.id,
       durationS: sql<number | null>`(${analysisVersion.report}->'totals'->>'duration_s')::double precision`,
       dcir: sql<unknown>`${analysisVersion.report}->'dcir'`,
@@ -44,7 +44,7 @@ export async function loadCellRuns(cellIds: readonly string[], exec?: Executor):
     .from(run)
     .innerJoin(analysisVersion, latestAnalysis)
     .where(and(inArray(run.cellId, [...cellIds]), eq(run.status, "complete")))
-    .orderBy(asc(run.createdAt), asc(run.id));
+    .orderBy(sql`coalesce(${run.testEndedAt}, ${run.createdAt})`, asc(run.id));
   if (runs.length === 0) return out;
   const analysisIds = runs.map((r) => r.analysisId);
   const [cycles, dangers] = await Promise.all([
@@ -88,7 +88,7 @@ export async function loadCellRuns(cellIds: readonly string[], exec?: Executor):
       runId: r.runId,
       analysisId: r.analysisId,
       purpose: r.purpose,
-      createdAt: r.createdAt,
+      endedAt: r.endedAt,
       durationS: r.durationS === null ? null : Number(r.durationS),
       cycles: cyclesBy.get(r.analysisId) ?? [],
       dcir: dcirOf(r.dcir),

@@ -16,6 +16,7 @@ const runHeaderColumns = {
   source: run.source,
   purpose: run.purpose,
   ambientTempC: run.ambientTempC,
+  testEndedAt: run.testEndedAt,
   operatorNote: run.operatorNote,
   fileName: run.fileName,
   fileSize: run.fileSize,
@@ -36,6 +37,8 @@ export interface RunHeader {
   source: "browser" | "api";
   purpose: RunPurpose;
   ambientTempC: number | null;
+  /** As the uploader stated it; null for "just before the upload". */
+  testEndedAt: Date | null;
   operatorNote: string;
   fileName: string;
   fileSize: number;

@@ -24,6 +24,8 @@ export interface NewRun {
   source: "browser" | "api";
   purpose: RunPurpose;
   ambientTempC: number | null;
+  /** When the test ended; null for "just before the upload". */
+  testEndedAt?: Date | null;
   operatorNote: string;
   fileKey: string;
   fileName: string;
@@ -94,6 +96,7 @@ export async function recordRun(input: NewRun, actor: AuditActor): Promise<{ run
           source: input.source,
           purpose: input.purpose,
           ambientTempC: input.ambientTempC,
+          testEndedAt: input.testEndedAt ?? null,
           operatorNote: input.operatorNote,
           fileKey: input.fileKey,
           fileName: input.fileName,
@@ -110,7 +113,7 @@ export async function recordRun(input: NewRun, actor: AuditActor): Promise<{ run
         action: "upload",
         entity: "run",
         entityId: row.id,
-        after: { cellId: target.id, serial: target.serial, fileName: input.fileName, fileSize: input.fileSize, sha256: input.sha256, source: input.source },
+        after: { cellId: target.id, serial: target.serial, fileName: input.fileName, fileSize: input.fileSize, sha256: input.sha256, source: input.source, testEndedAt: input.testEndedAt ?? null },
       });
       return { runId: row.id, cellId: target.id, serial: target.serial };
     });

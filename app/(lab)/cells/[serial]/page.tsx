@@ -54,7 +54,7 @@ export default async function CellPage({ params }: Params) {
   const withCurve = runs.filter((r) => r.delivered?.afterCharge).map((r) => ({ runId: r.id, label: label(r) }));
   const initial = withCurve.slice(0, initialOverlay).map((o) => o.runId);
   const prefetched = (await Promise.all(initial.map((id) => getDischargeCurvePayload(id)))).filter((p) => p !== null);
-  const byDate = capacityByDate(runs.map((r) => ({ createdAt: r.createdAt, deliveredMah: r.delivered?.afterCharge ? r.delivered.mAh : null })));
+  const byDate = capacityByDate(runs.map((r) => ({ at: r.testEndedAt ?? r.createdAt, deliveredMah: r.delivered?.afterCharge ? r.delivered.mAh : null })));
   const multiCycle = runs.filter((r) => r.cycles.filter(isFullCycle).length >= 2).map((r) => ({ label: label(r), cycles: r.cycles }));
   const mayUpload = Boolean(user && can(user.role, "run.upload"));
 

@@ -116,6 +116,7 @@ export default async function RunPage(props: Props) {
               { label: "Purpose", value: run.purpose },
               { label: "Operator", value: run.uploadedByName ?? "unknown (account removed)" },
               { label: "Uploaded", value: `${formatDateTime(run.createdAt)} (${run.source === "api" ? "bench API" : "browser"})` },
+              { label: "Test ended", value: run.testEndedAt ? formatDateTime(run.testEndedAt) : "not stated (taken as the upload time)" },
               { label: "Ambient temperature", value: formatCelsius(run.ambientTempC) },
               {
                 label: "Analysis",

@@ -87,6 +87,8 @@ export function UploadWorkbench({
   const [serial, setSerial] = useState("");
   const [purpose, setPurpose] = useState<(typeof runPurposes)[number]>("capacity check");
   const [ambient, setAmbient] = useState("");
+  // datetime-local: the reader's own clock time; sent as an instant so the server never guesses a zone.
+  const [testEnded, setTestEnded] = useState("");
   const [note, setNote] = useState("");
   const [batchId, setBatchId] = useState("");
   const [formError, setFormError] = useState<string | null>(null);
@@ -143,6 +145,7 @@ export function UploadWorkbench({
         cellSerial: serial.trim(),
         purpose,
         ambientTempC: ambient.trim() === "" ? undefined : Number(ambient.replace(",", ".")),
+        testEndedAt: testEnded ? new Date(testEnded).toISOString() : undefined,
         operatorNote: note,
         columnMap: item.map ?? undefined,
         batchId: !knownSerial && batchId ? batchId : undefined,
@@ -213,6 +216,14 @@ export function UploadWorkbench({
             </SelectField>
           ) : null}
           <TextField label="Ambient temperature (°C)" name="ambientTempC" inputMode="decimal" value={ambient} onChange={(e) => setAmbient(e.target.value)} />
+          <TextField
+            label="Test ended at"
+            name="testEndedAt"
+            type="datetime-local"
+            value={testEnded}
+            onChange={(e) => setTestEnded(e.target.value)}
+            hint="Your local time. Leave empty if the test has just ended; fade by date uses this time."
+          />
           <div className="md:col-span-2">
             <TextAreaField label="Operator note" name="operatorNote" rows={2} value={note} onChange={(e) => setNote(e.target.value)} maxLength={2000} />
           </div>

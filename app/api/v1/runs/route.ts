@@ -19,7 +19,7 @@ async function conflict(error: DuplicateRun): Promise<Response> {
 
 /**
  * POST /api/v1/runs — multipart: `file` plus the upload form's fields (cellSerial, purpose,
- * ambientTempC, operatorNote, columnMapId or columnMap as JSON, batchId/cellTypeId for a new
+ * ambientTempC, testEndedAt as ISO 8601 with its offset, operatorNote, columnMapId or columnMap as JSON, batchId/cellTypeId for a new
  * cell). Stored through the upload service and analysed like a browser upload.
  * 202 with the queued run; 409 with the existing run for byte-identical bytes; 413 when too large.
  */

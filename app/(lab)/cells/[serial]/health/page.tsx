@@ -155,10 +155,10 @@ export default async function CellHealthPage({ params }: Params) {
         ) : null}
         <Panel title="How these figures are made">
           <ul className="list-disc space-y-1 pl-5 text-sm text-ink-soft">
-            <li>Runs count in upload order; every full cycle (a charge, then a discharge) of every run advances the cell&apos;s cycle count.</li>
+            <li>Runs count in the order their tests ended (as stated on upload, else the upload time); every full cycle (a charge, then a discharge) of every run advances the cell&apos;s cycle count.</li>
             <li>A capacity check gives one point, the discharge after its last charge; a cycle-life run gives one point per full cycle. A discharge from an unknown state of charge is not a point.</li>
             <li>Fade is the least-squares slope of capacity on cycle, with its standard error and a t-based 95 % interval; the end-of-life cycle is where that line reaches the threshold, with a Fieller interval.</li>
-            <li>A point&apos;s date is its run&apos;s upload time less the time from the discharge&apos;s end to the end of the log.</li>
+            <li>A point&apos;s date is its run&apos;s test end (or upload time) less the time from the discharge&apos;s end to the end of the log.</li>
             <li>The knee is the Bacon–Watts change point (Fermín-Cueto et al., Energy and AI 1 (2020) 100006), kept only when an F-test against a straight line rejects the line at the 1 % level.</li>
           </ul>
         </Panel>

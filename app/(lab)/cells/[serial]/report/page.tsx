@@ -139,15 +139,17 @@ export default async function CellReportPage({ params }: Params) {
 
       <ReportSection title="Runs">
         {runs.length ? (
-          <SimpleTable caption={`Runs of cell ${cell.serial}, newest first`} headers={headersOf("Uploaded", "Purpose", "Status", "Charged#", "Delivered#", "Findings#")}>
+          <SimpleTable caption={`Runs of cell ${cell.serial}, newest first`} headers={headersOf("Test ended", "Purpose", "Status", "Charged#", "Delivered#", "Findings#")}>
             {runs.map((r) => (
               <Fragment key={r.id}>
                 <tr className="align-top">
                   <td className="px-3 pt-2 whitespace-nowrap">
                     <Link href={runHref(r.id)} className="text-copper-dark underline-offset-2 hover:underline">
-                      {formatUtc(r.createdAt)}
+                      {r.testEndedAt ? formatUtc(r.testEndedAt) : "not stated"}
                     </Link>
-                    <span className="block text-xs text-ink-soft">{r.uploadedByName ?? "—"}</span>
+                    <span className="block text-xs text-ink-soft">
+                      uploaded {formatUtc(r.createdAt)} by {r.uploadedByName ?? "—"}
+                    </span>
                   </td>
                   <td className="px-3 pt-2">{r.purpose}</td>
                   <td className="px-3 pt-2">{r.status}</td>

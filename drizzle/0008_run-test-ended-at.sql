@@ -1,0 +1,1 @@
+ALTER TABLE "run" ADD COLUMN "test_ended_at" timestamp with time zone;
