@@ -84,7 +84,7 @@ export function CapacityByDateChart({ x, y, ratedMah }: { x: number[]; y: number
     const lo = Math.min(...x);
     const hi = Math.max(...x);
     const pad = Math.max(2 * day, (hi - lo) * 0.05);
-    return { quantity: { label: "Upload date", unit: "date", decimals: 0 }, time: true, range: { min: lo - pad, max: hi + pad } };
+    return { quantity: { label: "Test ended", unit: "date", decimals: 0 }, time: true, range: { min: lo - pad, max: hi + pad } };
   }, [x]);
   return (
     <UplotChart

@@ -9,7 +9,8 @@ import { summariseDcir, iecMethod, type DcirSummary } from "./dcir";
 
 export interface RunFigures {
   runId: string;
-  createdAt: Date | string;
+  /** When the run's test ended: as stated on upload, else the upload time. "Latest" follows it. */
+  endedAt: Date | string;
   /** Null until the run's first analysis is stored. */
   analysed: boolean;
   findingsCount: number | null;
@@ -40,13 +41,13 @@ export function dcirOf(run: Pick<RunFigures, "dcirIecMohm" | "dcirEdgeMohm">): D
 }
 
 export function cellFigures(runs: readonly RunFigures[], ratedMah: number | null): CellFigures {
-  const newestFirst = [...runs].filter((r) => r.analysed).sort((a, b) => iso(b.createdAt).localeCompare(iso(a.createdAt)));
+  const newestFirst = [...runs].filter((r) => r.analysed).sort((a, b) => iso(b.endedAt).localeCompare(iso(a.endedAt)));
   let delivered: CellFigures["delivered"] = null;
   let ce: number | null = null;
   for (const r of newestFirst) {
     const d = deliveredCapacity(r.cycles);
     if (d?.afterCharge) {
-      delivered = { runId: r.runId, at: iso(r.createdAt), cycle: d.cycle, mAh: d.mAh };
+      delivered = { runId: r.runId, at: iso(r.endedAt), cycle: d.cycle, mAh: d.mAh };
       ce = d.coulombicEfficiency;
       break;
     }
@@ -62,7 +63,7 @@ export function cellFigures(runs: readonly RunFigures[], ratedMah: number | null
   const newest = newestFirst[0];
   return {
     runs: runs.length,
-    lastTestedAt: newest ? iso(newest.createdAt) : null,
+    lastTestedAt: newest ? iso(newest.endedAt) : null,
     delivered,
     sohPercent: sohPercent(delivered?.mAh, ratedMah),
     coulombicEfficiency: ce,

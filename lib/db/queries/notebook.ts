@@ -116,7 +116,7 @@ async function runFiguresOfCells(cellIds: string[]): Promise<RunFigureRow[]> {
     .select({
       runId: run.id,
       cellId: run.cellId,
-      createdAt: run.createdAt,
+      endedAt: sql<Date>`coalesce(${run.testEndedAt}, ${run.createdAt})`.mapWith(run.createdAt),
       analysisId: analysisVersion.id,
       findingsCount: analysisVersion.findingsCount,
       safetyFindingsCount: safetyCount,
@@ -150,7 +150,7 @@ async function runFiguresOfCells(cellIds: string[]): Promise<RunFigureRow[]> {
     runId: r.runId,
     cellId: r.cellId,
     analysisId: r.analysisId,
-    createdAt: r.createdAt,
+    endedAt: r.endedAt,
     analysed: r.analysisId !== null,
     findingsCount: r.findingsCount,
     safetyFindingsCount: r.safetyFindingsCount,

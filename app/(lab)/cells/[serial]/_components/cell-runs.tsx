@@ -24,6 +24,7 @@ export function CellRuns({ runs, serial }: { runs: CellRunEntry[]; serial: strin
               <Link href={`/runs/${r.id}`} className="font-medium text-copper-dark underline-offset-2 hover:underline">
                 {formatDateTime(r.createdAt)}
               </Link>
+              {r.testEndedAt ? <span className="block text-xs text-ink-soft">test ended {formatDateTime(r.testEndedAt)}</span> : null}
               <span className="mt-0.5 flex flex-wrap items-center gap-1.5 text-xs text-ink-soft">
                 {r.purpose} <Badge tone={statusTone[r.status] ?? "neutral"}>{r.status}</Badge>
               </span>

@@ -121,7 +121,7 @@ export default async function CellHealthPage({ params }: Params) {
                 Latest {formatMilliohm(health.resistanceRise.latest.median_mOhm)} against the first {formatMilliohm(health.resistanceRise.first.median_mOhm)} by the same method: {formatNumber(health.resistanceRise.risePct, 1)} % rise.
               </p>
             ) : null}
-            <SimpleTable caption={`DC resistance of cell ${cell.serial} by run`} headers={headersOf("Uploaded", "Method", "Median#", "Results#", "Run")}>
+            <SimpleTable caption={`DC resistance of cell ${cell.serial} by run`} headers={headersOf("Test ended", "Method", "Median#", "Results#", "Run")}>
               {measurements.resistance.map((r) => (
                 <tr key={r.runId}>
                   <td className={cellClass()}>{formatDateTime(r.at)}</td>
@@ -140,7 +140,7 @@ export default async function CellHealthPage({ params }: Params) {
         ) : null}
         {measurements.efficiency.length ? (
           <Panel title="Coulombic efficiency">
-            <SimpleTable caption={`Lowest coulombic efficiency per run of cell ${cell.serial}`} headers={headersOf("Uploaded", "Purpose", "Lowest#", "In cycle#", "Cycles#")}>
+            <SimpleTable caption={`Lowest coulombic efficiency per run of cell ${cell.serial}`} headers={headersOf("Test ended", "Purpose", "Lowest#", "In cycle#", "Cycles#")}>
               {measurements.efficiency.map((e) => (
                 <tr key={e.runId}>
                   <td className={cellClass()}>{formatDateTime(e.at)}</td>
