@@ -132,6 +132,15 @@ export async function getDb(): Promise<Database> {
   return (await store.opening).db;
 }
 
+/**
+ * Whether this process is the database's only user: PGlite is, by its directory lock (or being in
+ * memory); a PostgreSQL server may have other app processes on it.
+ */
+export async function databaseIsExclusive(): Promise<boolean> {
+  await getDb();
+  return store.handle?.target.kind !== "postgres";
+}
+
 /** Installs an already open handle as the process database (tests and scripts). */
 export function installDatabaseHandle(handle: DatabaseHandle): void {
   store.handle = handle;

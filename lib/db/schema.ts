@@ -234,6 +234,12 @@ export const run = pgTable(
     requestSeq: integer("request_seq").notNull().default(0),
     /** Who asked for the pending (or last) analysis. */
     requestedBy: text("requested_by").references(() => user.id, { onDelete: "set null" }),
+    /**
+     * The process analysing the run, and until when its claim holds without a renewal. Several app
+     * processes on one PostgreSQL server take over only runs whose lease has run out.
+     */
+    leaseOwner: text("lease_owner"),
+    leaseExpiresAt: timestamp("lease_expires_at", { withTimezone: true }),
     /** Analyses started for the current request; a run that keeps crashing the worker is failed, not retried forever. */
     attempts: integer("attempts").notNull().default(0),
     /** Highest analysis version stored; null until the first analysis completes. */

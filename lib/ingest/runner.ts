@@ -1,10 +1,14 @@
 import "server-only";
+import { randomUUID } from "node:crypto";
+import { databaseIsExclusive } from "@/lib/db/client";
 import {
+  analysisLeaseSeconds,
   claimQueuedRun,
   completeAnalysis,
   failAnalysis,
   recoverInterruptedRuns,
   releaseClaim,
+  renewLease,
   type ClaimedRun,
 } from "@/lib/db/queries/runs";
 import { evaluateFlagsAfterAnalysis } from "@/lib/flags/evaluate";
@@ -26,6 +30,10 @@ interface IngestState {
   pool?: WorkerPool;
   queue?: RunQueue;
   recovery?: Promise<void>;
+  /** This process's name on the runs it claims. */
+  owner?: string;
+  /** On a shared PostgreSQL server: the periodic look for runs another process left behind. */
+  sweep?: NodeJS.Timeout;
 }
 // Route handlers, actions and instrumentation are separate module instances: share one state.
 const stateKey = Symbol.for("kneepoint.ingest");
@@ -53,10 +61,34 @@ async function analyse(claim: ClaimedRun): Promise<AnalyseResult> {
   });
 }
 
-/** Runs one queued run's analysis and stores its outcome. Returns whether the run must run again. */
+function owner(): string {
+  state.owner ??= randomUUID();
+  return state.owner;
+}
+
+/** Keeps the claim's lease alive while the analysis runs, renewing at a third of its length. */
+function holdLease(claim: ClaimedRun): () => void {
+  const timer = setInterval(() => {
+    renewLease(claim).catch((error: unknown) => console.error(`Renewing the lease on run ${claim.runId} failed`, error));
+  }, (analysisLeaseSeconds * 1000) / 3);
+  timer.unref();
+  return () => clearInterval(timer);
+}
+
+/** Runs one queued run's analysis and stores its outcome, under a lease. Returns whether the run must run again. */
 async function processRun(runId: string): Promise<boolean> {
-  const claim = await claimQueuedRun(runId);
+  const claim = await claimQueuedRun(runId, owner());
   if (!claim) return false;
+  const release = holdLease(claim);
+  try {
+    return await analyseAndStore(claim);
+  } finally {
+    release();
+  }
+}
+
+async function analyseAndStore(claim: ClaimedRun): Promise<boolean> {
+  const { runId } = claim;
   let result: AnalyseResult;
   try {
     result = await analyse(claim);
@@ -135,21 +167,34 @@ function queue(): RunQueue {
   return state.queue;
 }
 
+async function takeOverRuns(onlyExpired: boolean): Promise<void> {
+  const { requeued, failed, queued } = await recoverInterruptedRuns(maxAnalysisAttempts, { onlyExpired });
+  if (requeued.length || failed.length) console.log(`Analysis queue: resumed ${requeued.length} interrupted run(s), failed ${failed.length}.`);
+  for (const runId of queued) queue().enqueue(runId);
+}
+
 /**
  * Once per process: runs left `analysing` by a crash or restart are queued again (or failed when
- * out of attempts), and every queued run is put on the queue.
+ * out of attempts), and every queued run is put on the queue. Alone on the database (PGlite) every
+ * analysing run is an orphan; on a PostgreSQL server shared with other app processes only runs
+ * whose lease ran out are, and this process looks for them again every half lease, so runs a
+ * dead process held or queued are finished by a live one.
  */
 export function recoverRuns(): Promise<void> {
-  state.recovery ??= recoverInterruptedRuns(maxAnalysisAttempts).then(
-    ({ requeued, failed, queued }) => {
-      if (requeued.length || failed.length) console.log(`Analysis queue: resumed ${requeued.length} interrupted run(s), failed ${failed.length}.`);
-      for (const runId of queued) queue().enqueue(runId);
-    },
-    (error: unknown) => {
+  state.recovery ??= databaseIsExclusive()
+    .then(async (exclusive) => {
+      await takeOverRuns(!exclusive);
+      if (!exclusive && !state.sweep) {
+        state.sweep = setInterval(() => {
+          takeOverRuns(true).catch((error: unknown) => console.error("Looking for runs other processes left failed", error));
+        }, (analysisLeaseSeconds * 1000) / 2);
+        state.sweep.unref();
+      }
+    })
+    .catch((error: unknown) => {
       state.recovery = undefined;
       throw error;
-    },
-  );
+    });
   return state.recovery;
 }
 
@@ -167,6 +212,8 @@ export function analysisIdle(): Promise<void> {
 /** Stops the workers (tests and shutdown). Queued runs stay queued in the database. */
 export async function stopAnalysis(): Promise<void> {
   const pool = state.pool;
+  clearInterval(state.sweep);
+  state.sweep = undefined;
   state.pool = undefined;
   state.queue = undefined;
   state.recovery = undefined;

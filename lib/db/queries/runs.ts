@@ -1,5 +1,5 @@
 import "server-only";
-import { and, asc, eq, max, sql } from "drizzle-orm";
+import { and, asc, eq, isNull, lt, max, or, sql } from "drizzle-orm";
 import { columnMapSchema, type CellLimits, type ColumnMap } from "@/lib/analysis/types";
 import { AppError } from "@/lib/http/errors";
 import { cellLimitsOf } from "@/lib/ingest/limits";
@@ -169,8 +169,19 @@ export async function requestAnalysis(
   });
 }
 
+/**
+ * How long a claim on a run holds without a renewal. The runner renews it while it analyses; a
+ * process that dies lets its runs go this long after its last renewal.
+ */
+export const analysisLeaseSeconds = 60;
+
+/** The lease's end, by the database's clock, so processes on hosts with drifting clocks agree. */
+const leaseEnd = sql`now() + make_interval(secs => ${analysisLeaseSeconds})`;
+
 export interface ClaimedRun {
   runId: string;
+  /** The claiming process. */
+  owner: string;
   fileKey: string;
   fileName: string;
   sha256: string;
@@ -181,8 +192,8 @@ export interface ClaimedRun {
   limits: CellLimits;
 }
 
-/** Moves a queued run to analysing and hands the runner what it needs; null when not queued. */
-export async function claimQueuedRun(runId: string): Promise<ClaimedRun | null> {
+/** Moves a queued run to analysing under `owner`'s lease and hands the runner what it needs; null when not queued. */
+export async function claimQueuedRun(runId: string, owner = "this process"): Promise<ClaimedRun | null> {
   const db = await getDb();
   return db.transaction(async (tx) => {
     const [row] = await tx
@@ -204,9 +215,10 @@ export async function claimQueuedRun(runId: string): Promise<ClaimedRun | null> 
     const type = await getCellType(row.cellTypeId, tx);
     if (!type) throw new Error(`cell type ${row.cellTypeId} vanished`);
     const attempts = row.attempts + 1;
-    await tx.update(run).set({ status: "analysing", startedAt: new Date(), attempts }).where(eq(run.id, runId));
+    await tx.update(run).set({ status: "analysing", startedAt: new Date(), attempts, leaseOwner: owner, leaseExpiresAt: leaseEnd }).where(eq(run.id, runId));
     return {
       runId,
+      owner,
       fileKey: row.fileKey,
       fileName: row.fileName,
       sha256: row.sha256,
@@ -219,11 +231,28 @@ export async function claimQueuedRun(runId: string): Promise<ClaimedRun | null> 
   });
 }
 
-/** The run row under a lock, or null when it is no longer being analysed by this claim. */
+/**
+ * The run row under a lock, or null when it is no longer being analysed by this claim: finished,
+ * or taken over by another process after this one's lease ran out (its late result is dropped).
+ */
 async function lockClaimed(tx: Transaction, claim: ClaimedRun): Promise<{ overtaken: boolean } | null> {
-  const [row] = await tx.select({ status: run.status, requestSeq: run.requestSeq }).from(run).where(eq(run.id, claim.runId)).for("update");
-  if (!row || row.status !== "analysing") return null;
+  const [row] = await tx.select({ status: run.status, requestSeq: run.requestSeq, leaseOwner: run.leaseOwner }).from(run).where(eq(run.id, claim.runId)).for("update");
+  if (!row || row.status !== "analysing" || row.leaseOwner !== claim.owner) return null;
   return { overtaken: row.requestSeq !== claim.requestSeq };
+}
+
+/** A run leaving `analysing` is no process's any more. */
+const released = { leaseOwner: null, leaseExpiresAt: null };
+
+/** Extends a claim's lease while its analysis runs; false once the run is no longer this claim's. */
+export async function renewLease(claim: Pick<ClaimedRun, "runId" | "owner">): Promise<boolean> {
+  const db = await getDb();
+  const renewed = await db
+    .update(run)
+    .set({ leaseExpiresAt: leaseEnd })
+    .where(and(eq(run.id, claim.runId), eq(run.status, "analysing"), eq(run.leaseOwner, claim.owner)))
+    .returning({ id: run.id });
+  return renewed.length > 0;
 }
 
 async function insertInChunks<T>(rows: T[], size: number, insert: (chunk: T[]) => Promise<unknown>): Promise<void> {
@@ -268,7 +297,7 @@ export async function completeAnalysis(
     const status: RunStatus = state.overtaken ? "queued" : "complete";
     await tx
       .update(run)
-      .set({ status, latestVersion: version, error: null, finishedAt: new Date(), ...(state.overtaken ? { attempts: 0 } : {}) })
+      .set({ status, latestVersion: version, error: null, finishedAt: new Date(), ...released, ...(state.overtaken ? { attempts: 0 } : {}) })
       .where(eq(run.id, claim.runId));
     await recordAudit(tx, null, {
       action: "analyse",
@@ -289,7 +318,7 @@ export async function failAnalysis(claim: ClaimedRun, error: RunError): Promise<
     const status: RunStatus = state.overtaken ? "queued" : "failed";
     await tx
       .update(run)
-      .set({ status, error: state.overtaken ? null : error, finishedAt: new Date(), ...(state.overtaken ? { attempts: 0 } : {}) })
+      .set({ status, error: state.overtaken ? null : error, finishedAt: new Date(), ...released, ...(state.overtaken ? { attempts: 0 } : {}) })
       .where(eq(run.id, claim.runId));
     await recordAudit(tx, null, { action: "analyse", entity: "run", entityId: claim.runId, after: { status, error } });
     return { requeue: state.overtaken };
@@ -310,7 +339,7 @@ export async function releaseClaim(claim: ClaimedRun, message: string, maxAttemp
     const error: RunError | null = retry ? null : { code: "analysis-crashed", message: `The analysis could not finish: ${message}` };
     await tx
       .update(run)
-      .set({ status, error, ...(retry ? {} : { finishedAt: new Date() }) })
+      .set({ status, error, ...released, ...(retry ? {} : { finishedAt: new Date() }) })
       .where(eq(run.id, claim.runId));
     if (!retry) await recordAudit(tx, null, { action: "analyse", entity: "run", entityId: claim.runId, after: { status, error } });
     return status;
@@ -318,18 +347,26 @@ export async function releaseClaim(claim: ClaimedRun, message: string, maxAttemp
 }
 
 /**
- * At start-up: runs left `analysing` by a crash or restart go back to the queue, or fail when
- * they have used their attempts. Returns every queued run, oldest first, for the queue.
+ * Runs left `analysing` by a crash or restart go back to the queue, or fail when they have used
+ * their attempts. Returns every queued run, oldest first, for the queue. `onlyExpired`: take only
+ * runs whose lease ran out (several processes share a PostgreSQL server); without it every
+ * analysing run is taken, which is right when this process holds the database alone (PGlite's
+ * directory lock) and so no other process can be analysing.
  */
-export async function recoverInterruptedRuns(maxAttempts: number): Promise<{ requeued: string[]; failed: string[]; queued: string[] }> {
+export async function recoverInterruptedRuns(maxAttempts: number, options: { onlyExpired?: boolean } = {}): Promise<{ requeued: string[]; failed: string[]; queued: string[] }> {
   const db = await getDb();
   return db.transaction(async (tx) => {
-    const interrupted = await tx.select({ id: run.id, attempts: run.attempts }).from(run).where(eq(run.status, "analysing")).for("update");
+    const expired = or(isNull(run.leaseExpiresAt), lt(run.leaseExpiresAt, sql`now()`));
+    const interrupted = await tx
+      .select({ id: run.id, attempts: run.attempts })
+      .from(run)
+      .where(options.onlyExpired ? and(eq(run.status, "analysing"), expired) : eq(run.status, "analysing"))
+      .for("update", { skipLocked: true });
     const requeued: string[] = [];
     const failed: string[] = [];
     for (const r of interrupted) {
       if (r.attempts < maxAttempts) {
-        await tx.update(run).set({ status: "queued" }).where(eq(run.id, r.id));
+        await tx.update(run).set({ status: "queued", ...released }).where(eq(run.id, r.id));
         requeued.push(r.id);
       } else {
         const error: RunError = { code: "analysis-interrupted", message: "The analysis was interrupted by restarts too often; start it again." };
