@@ -97,26 +97,30 @@ describe("the daily digest", () => {
   });
 
   it("is queued once per day after the set hour, to every engineer, and sent through the outbox", async () => {
+    // The sender's clock runs from tomorrow: messages are queued at the database's real time, and
+    // are due once the sender's clock has passed it (a fixed date would turn into the past).
+    const today = new Date();
+    const at = (daysAfterTomorrow: number, hour: number, minute: number) => new Date(today.getFullYear(), today.getMonth(), today.getDate() + 1 + daysAfterTomorrow, hour, minute);
     await raiseFlagByHand({ cellSerial: "KP-DIG-1", reason: "Label peeling" }, { id: engineer.id, name: "Ada Engineer" }, "http://localhost:3000");
-    expect(await digestDue(new Date(2026, 11, 2, 8, 0))).toBe(false);
+    expect(await digestDue(at(0, 8, 0))).toBe(false);
     expect((await asEngineer(() => saveLabSettingsAction({ eolThresholdPct: "99", digestEnabled: "on", digestHour: "7" }))).ok).toBe(true);
 
-    expect(await digestDue(new Date(2026, 11, 2, 6, 59))).toBe(false);
-    const morning = new Date(2026, 11, 2, 7, 5);
+    expect(await digestDue(at(0, 6, 59))).toBe(false);
+    const morning = at(0, 7, 5);
     expect(await digestDue(morning)).toBe(true);
     let clock = morning;
     const sender = new OutboxSender({ smtpUrl: `smtp://127.0.0.1:${fake.smtpPort}`, now: () => clock, baseUrl: "http://localhost:3000" });
     const first = await sender.runOnce();
     expect(first.digestQueued).toBe(1);
     expect(await digestDue(morning)).toBe(false);
-    expect(await queueDailyDigest(new Date(2026, 11, 2, 18, 0), "http://localhost:3000")).toBe(0);
+    expect(await queueDailyDigest(at(0, 18, 0), "http://localhost:3000")).toBe(0);
 
     const digests = async () =>
       ((await (await fetch(`${fake.httpUrl}/api/messages`)).json()) as StoredMessage[]).filter((m) => m.subject.startsWith("Kneepoint digest"));
     expect((await digests()).map((m) => [m.to, m.subject])).toEqual([[[engineer.email], expect.stringContaining(localDate(morning))]]);
     expect((await digests())[0]?.text).toContain("Label peeling");
 
-    clock = new Date(2026, 11, 3, 7, 1);
+    clock = at(1, 7, 1);
     expect((await sender.runOnce()).digestQueued).toBe(1);
     expect(await digests()).toHaveLength(2);
     await sender.stop();
