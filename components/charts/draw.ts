@@ -80,6 +80,9 @@ export function drawMarkers(u: uPlot, markers: readonly Marker[], scale: string,
     ctx.strokeStyle = color(token);
     ctx.lineWidth = 1.5 * dpr;
     ctx.font = `600 ${11 * dpr}px ${getComputedStyle(document.body).fontFamily}`;
+    // uPlot leaves its own alignment on the context after drawing the axes; the label maths below assume left-aligned text.
+    ctx.textAlign = "left";
+    ctx.textBaseline = "alphabetic";
     let labelEnd = -Infinity;
     for (const m of markers) {
       const x = u.valToPos(m.x, "x", true);
