@@ -107,6 +107,27 @@ describe("the notebook pages for an uploaded demo log", () => {
     await screenshot(page, "notebook-run-notes");
   });
 
+  it("analyses the run again as a second version and shows either version", async () => {
+    await page.goto(runUrl);
+    const firstDelivered = mAhIn(await factValue(page, "Delivered capacity"));
+    await page.getByRole("button", { name: "Analyse again" }).click();
+    // The page follows the new analysis and reloads when it has finished; the picker appears with two versions.
+    const picker = page.getByLabel("Analysis version");
+    await picker.waitFor({ timeout: 90_000 });
+    const options = await picker.locator("option").allInnerTexts();
+    expect(options).toHaveLength(2);
+    expect(options.some((o) => /^Version 2 \(latest\) · \d{4}-\d{2}-\d{2} \d{2}:\d{2} UTC$/.test(o))).toBe(true);
+    expect(options.some((o) => /^Version 1 · /.test(o))).toBe(true);
+    await picker.selectOption("1");
+    await page.waitForURL(/\?version=1$/);
+    await page.getByText("You are looking at version 1; version 2 is the latest analysis of this file.").waitFor();
+    // Same bytes, same engine, same limits: both versions deliver the same capacity.
+    expect(mAhIn(await factValue(page, "Delivered capacity"))).toBe(firstDelivered);
+    await screenshot(page, "notebook-run-version-1");
+    await picker.selectOption("2");
+    await page.waitForURL((url) => !url.search.includes("version"));
+  });
+
   it("lists the run on the cell page with the same delivered capacity", async () => {
     await page.goto(`${app.url}/cells/PB-0007`);
     const runs = page.getByRole("table", { name: "Runs of cell PB-0007" });

@@ -10,6 +10,7 @@ import { Facts } from "@/components/ui/facts";
 import { PageTitle, Panel } from "@/components/ui/panel";
 import { can } from "@/lib/auth/roles";
 import { currentUser } from "@/lib/auth/session";
+import { listColumnMaps } from "@/lib/db/queries/column-maps";
 import { deliveredCapacity, sohPercent } from "@/lib/charts/capacity";
 import { plotView } from "@/lib/charts/plot-series";
 import { getRunPage } from "@/lib/db/queries/notebook";
@@ -21,6 +22,7 @@ import { CycleTable } from "./_components/cycle-table";
 import { DcirTable } from "./_components/dcir-table";
 import { OtherFindings, SafetyFindings } from "./_components/findings";
 import { RunNotes } from "./_components/run-notes";
+import { ReanalyseForm } from "./_components/reanalyse-form";
 import { RunStatusWatcher } from "./_components/run-status-watcher";
 import { StepTable } from "./_components/step-table";
 import { VersionPicker } from "./_components/version-picker";
@@ -55,6 +57,8 @@ export default async function RunPage(props: Props) {
   const [page, user] = await Promise.all([resolve(props), currentUser()]);
   if (!page) notFound();
   const { detail, cell, notes } = page;
+  const mayAnalyse = Boolean(user && can(user.role, "run.analyse"));
+  const savedMaps = user && mayAnalyse ? (await listColumnMaps(user.id)).map(({ id, name, ownerName }) => ({ id, name, ownerName })) : [];
   const { run, analysis } = detail;
   const report = analysis ? reportView(analysis.report) : null;
   const plot = plotView(detail.series);
@@ -179,7 +183,7 @@ export default async function RunPage(props: Props) {
               <a href={rawHref} download className="font-medium text-copper-dark underline">
                 Download the raw file
               </a>{" "}
-              to look at that line, then upload a corrected copy or analyse it again with a column map on the Upload page.
+              to look at that line, then upload a corrected copy, or analyse it again below with a saved column map.
             </p>
           </section>
         ) : null}
@@ -265,6 +269,15 @@ export default async function RunPage(props: Props) {
 
             <OtherFindings findings={others} />
           </>
+        ) : null}
+
+        {mayAnalyse && (run.status === "complete" || run.status === "failed") ? (
+          <Panel title="Analyse again">
+            <p className="mb-3 text-sm text-ink-soft">
+              After a fix to a column map, or to see this log with the current limits of its cell type. The raw file stays as it is; the new analysis is added as the next version.
+            </p>
+            <ReanalyseForm runId={run.id} maps={savedMaps} />
+          </Panel>
         ) : null}
 
         <Panel title="Notes">

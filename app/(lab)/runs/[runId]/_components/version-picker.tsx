@@ -21,7 +21,7 @@ export function VersionPicker({ versions, current, latest }: { versions: { versi
           const v = Number(e.target.value);
           router.replace(v === latest ? pathname : `${pathname}?version=${v}`, { scroll: false });
         }}
-        className={`${inputClass} w-auto! py-1!`}
+        className={`${inputClass} w-auto! max-w-full py-1!`}
       >
         {versions.map((v) => (
           <option key={v.version} value={v.version}>
