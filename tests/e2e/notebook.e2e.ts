@@ -64,6 +64,8 @@ describe("the notebook pages for an uploaded demo log", () => {
   it("uploads the log and opens its run page with the chart, the switch point and the numbers", async () => {
     await page.goto(`${app.url}/upload`);
     await page.getByLabel("Cell serial").fill("PB-0007");
+    // The browser's local time; the server shows it in the same machine's zone.
+    await page.getByLabel("Test ended at").fill("2026-11-30T16:45");
     await page.getByTestId("log-file-input").setInputFiles(logPath);
     const item = page.getByTestId("upload-item");
     await item.getByText("ready").waitFor();
@@ -72,6 +74,7 @@ describe("the notebook pages for an uploaded demo log", () => {
     await page.getByRole("link", { name: "Open the run" }).click();
     await page.waitForURL(/\/runs\/[0-9a-f-]{36}$/);
     runUrl = page.url();
+    expect(await factValue(page, "Test ended")).toBe("2026-11-30 16:45");
 
     const chart = page.getByRole("figure", { name: "Voltage and current against time" });
     await chart.locator("canvas").first().waitFor();
