@@ -65,7 +65,7 @@ export async function seedDemoRuns(db: Database, onProgress: (done: number, tota
     const stored = await storeFile(new Blob([new Uint8Array(bytes)]), name, name.endsWith(".tsv") ? "text/tab-separated-values" : "text/csv");
     await admitStoredFile(
       { key: stored.key, name, size: stored.size },
-      { cellSerial: demo.serial, newCell: { batchId: undefined, cellTypeId: undefined }, mayCreateCell: false, purpose: demo.purpose, ambientTempC: 23, testEndedAt: demo.testEndedAt, operatorNote: demo.note, columnMap: null },
+      { cellSerial: demo.serial, newCell: { batchId: undefined, cellTypeId: undefined }, mayCreateCell: false, purpose: demo.purpose, ambientTempC: 23, testEndedAt: demo.testEndedAt.toISOString(), operatorNote: demo.note, columnMap: null },
       "api",
       actor,
     );

@@ -26,7 +26,7 @@ export function runFields(input: RunUploadInput, user: SessionUser, columnMap: C
     mayCreateCell: can(user.role, "cell.write"),
     purpose: input.purpose,
     ambientTempC: input.ambientTempC ?? null,
-    testEndedAt: input.testEndedAt ? new Date(input.testEndedAt) : null,
+    testEndedAt: input.testEndedAt ?? null,
     operatorNote: input.operatorNote,
     columnMap,
   };

@@ -51,7 +51,7 @@ describe("upload through the file route", () => {
       useCallbackMode(mode, route.routeUrl);
       const texts = [capacityCheckCsv(10 + 2 * n), capacityCheckCsv(11 + 2 * n)];
       const files = texts.map((text, i) => csvFile(text, `${mode}-capacity-${i}.csv`));
-      const presigned = await presignedUploads(route.routeUrl, files, { cellSerial: "KP-UP-0001", purpose: "capacity check", ambientTempC: 23, operatorNote: `bench 3, ${mode}` }, technician.headers);
+      const presigned = await presignedUploads(route.routeUrl, files, { cellSerial: "KP-UP-0001", purpose: "capacity check", ambientTempC: 23, testEndedAt: "2026-11-30T16:45:00+01:00", operatorNote: `bench 3, ${mode}` }, technician.headers);
       expect(presigned).toHaveLength(2);
 
       const runIds: string[] = [];
@@ -68,7 +68,7 @@ describe("upload through the file route", () => {
       for (const [i, runId] of runIds.entries()) {
         const text = texts[i] ?? "";
         const detail = await getRunDetail(runId);
-        expect(detail?.run).toMatchObject({ status: "complete", serial: "KP-UP-0001", purpose: "capacity check", ambientTempC: 23, source: "browser", sha256: sha256(text), fileSize: Buffer.byteLength(text), latestVersion: 1, error: null });
+        expect(detail?.run).toMatchObject({ status: "complete", serial: "KP-UP-0001", purpose: "capacity check", ambientTempC: 23, testEndedAt: new Date("2026-11-30T15:45:00Z"), source: "browser", sha256: sha256(text), fileSize: Buffer.byteLength(text), latestVersion: 1, error: null });
         expect(detail?.analysis?.version).toBe(1);
         const report = detail?.analysis?.report as { status: string; steps: unknown[]; cycles: unknown[]; totals: { charged_mAh: number; discharged_mAh: number } };
         expect(report.status).toBe("ok");

@@ -28,7 +28,7 @@ export async function storeAnalysedRun(
       source: "api",
       purpose: options.purpose,
       ambientTempC: 23,
-      testEndedAt: options.testEndedAt ?? null,
+      testEndedAt: options.testEndedAt?.toISOString() ?? null,
       operatorNote: "",
       fileKey: `test/${sha256}`,
       fileName: options.fileName ?? `${options.serial}-${sha256.slice(0, 8)}.csv`,

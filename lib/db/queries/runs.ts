@@ -24,8 +24,11 @@ export interface NewRun {
   source: "browser" | "api";
   purpose: RunPurpose;
   ambientTempC: number | null;
-  /** When the test ended; null for "just before the upload". */
-  testEndedAt?: Date | null;
+  /**
+   * When the test ended (ISO 8601 instant); null for "just before the upload". Text, not a Date:
+   * a browser upload's fields travel through the upload service as JSON and come back as text.
+   */
+  testEndedAt?: string | null;
   operatorNote: string;
   fileKey: string;
   fileName: string;
@@ -96,7 +99,7 @@ export async function recordRun(input: NewRun, actor: AuditActor): Promise<{ run
           source: input.source,
           purpose: input.purpose,
           ambientTempC: input.ambientTempC,
-          testEndedAt: input.testEndedAt ?? null,
+          testEndedAt: input.testEndedAt ? new Date(input.testEndedAt) : null,
           operatorNote: input.operatorNote,
           fileKey: input.fileKey,
           fileName: input.fileName,
