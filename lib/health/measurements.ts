@@ -4,14 +4,15 @@
  * pages, flag rules and tests share it.
  *
  * Conventions (ours, shown on the health page):
- * - Runs are taken in upload order. A cycle is the analysis engine's: a charge and the discharge
+ * - Runs are taken in the order their tests ended (as the uploader stated, else the upload
+ *   time). A cycle is the analysis engine's: a charge and the discharge
  *   after it. A cycle with both is a full cycle; the cell's cycle count advances by one for each
  *   full cycle of every run, whatever the run's purpose, because every cycle ages the cell.
  * - Capacity points come from "capacity check" runs (one point: the last full cycle, the
  *   measurement after the declared charge, IEC 61960-3 §7.3.1) and "cycle life" runs (every full
  *   cycle). A discharge without a charge before it starts from an unknown state and is no point.
- * - A point's date is the upload time less the time from the cycle's discharge end to the end of
- *   the log: the upload is taken as the end of the test.
+ * - A point's date is the test's end less the time from the cycle's discharge end to the end of
+ *   the log; without a stated end, the upload is taken as the end of the test.
  * - DC resistance per run: the median of the IEC 61960-3 two-current results when the run has
  *   any, else of the step-edge estimates (the two methods measure different things and are never
  *   mixed in one comparison).
