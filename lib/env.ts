@@ -2,6 +2,10 @@ import "server-only";
 import path from "node:path";
 import { z } from "zod";
 
+/** A whole number of at least 1, or unset (an empty value counts as unset). */
+const optionalWholeNumber = (name: string) =>
+  z.preprocess((v) => (v === "" ? undefined : v), z.coerce.number().int(`${name} must be a whole number`).min(1, `${name} must be at least 1`).optional());
+
 /**
  * Server settings, read from the environment once and validated, so a mistyped variable stops
  * the app at start with a clear message instead of failing on some later request.
@@ -25,6 +29,9 @@ const serverEnvSchema = z.object({
     .regex(/^smtps?:\/\/[^/\s]+/, "SMTP_URL must look like smtp://host:port or smtps://host:port")
     .optional()
     .or(z.literal("").transform(() => undefined)),
+  /** Requests a second each personal API token may send on average, and the burst it may send on top. */
+  KNEEPOINT_API_REQUESTS_PER_SECOND: optionalWholeNumber("KNEEPOINT_API_REQUESTS_PER_SECOND"),
+  KNEEPOINT_API_BURST: optionalWholeNumber("KNEEPOINT_API_BURST"),
   /** Sender of alert mail. */
   KNEEPOINT_MAIL_FROM: z.string().min(3).default("Kneepoint alerts <alerts@kneepoint.localhost>"),
   /** The local mail catcher's inbox page, set by `npm start` in development. */

@@ -81,31 +81,38 @@ export function OutlierFacts({ q }: { q: BatchQuality }) {
   );
 }
 
-/** Each cell of the lot with its delivered capacity and where it falls against the spec and the outlier tests. */
+/** Each cell of the lot with its delivered capacity and where it falls against the spec and the outlier tests, then the cells not measured yet. */
 export function QualityCellTable({ q }: { q: BatchQuality }) {
   const byName = new Map(q.delivered.map((d) => [d.serial, d]));
   return (
-    <SimpleTable caption={`Cells of batch ${q.batch.lotCode} with their delivered capacity`} headers={headersOf("Cell", "Status", "Capacity#", "z#", "Tukey", "Grubbs", "Spec", "Fade per 100 cycles#", "DCIR#")}>
-      {q.report.cells.map((c) => {
-        const d = byName.get(c.serial);
-        return (
-          <tr key={c.serial}>
-            <td className={cellClass()}>
-              <Link href={cellHealthHref(c.serial)} className="whitespace-nowrap font-mono text-copper-dark underline-offset-2 hover:underline">
-                {c.serial}
-              </Link>
-            </td>
-            <td className={cellClass()}>{d?.status ?? "—"}</td>
-            <td className={cellClass(true)}>{formatMah(c.capacity_mAh)}</td>
-            <td className={cellClass(true)}>{formatNumber(c.z, 2)}</td>
-            <td className={cellClass()}>{c.fence ?? "—"}</td>
-            <td className={cellClass()}>{c.grubbsOutlier ? "outlier" : ""}</td>
-            <td className={cellClass()}>{c.belowLsl ? "below" : c.aboveUsl ? "above" : "within"}</td>
-            <td className={cellClass(true)}>{d?.fadePer100Cycles_pctRated === null || d?.fadePer100Cycles_pctRated === undefined ? "—" : `${formatNumber(d.fadePer100Cycles_pctRated, 2)} %`}</td>
-            <td className={cellClass(true)}>{formatMilliohm(d?.dcir_mOhm)}</td>
-          </tr>
-        );
-      })}
-    </SimpleTable>
+    <>
+      <SimpleTable caption={`Cells of batch ${q.batch.lotCode} with their delivered capacity`} headers={headersOf("Cell", "Status", "Capacity#", "z#", "Tukey", "Grubbs", "Spec", "Fade per 100 cycles#", "DCIR#")}>
+        {q.report.cells.map((c) => {
+          const d = byName.get(c.serial);
+          return (
+            <tr key={c.serial}>
+              <td className={cellClass()}>
+                <Link href={cellHealthHref(c.serial)} className="whitespace-nowrap font-mono text-copper-dark underline-offset-2 hover:underline">
+                  {c.serial}
+                </Link>
+              </td>
+              <td className={cellClass()}>{d?.status ?? "—"}</td>
+              <td className={cellClass(true)}>{formatMah(c.capacity_mAh)}</td>
+              <td className={cellClass(true)}>{formatNumber(c.z, 2)}</td>
+              <td className={cellClass()}>{c.fence ?? "—"}</td>
+              <td className={cellClass()}>{c.grubbsOutlier ? "outlier" : ""}</td>
+              <td className={cellClass()}>{c.belowLsl ? "below" : c.aboveUsl ? "above" : "within"}</td>
+              <td className={cellClass(true)}>{d?.fadePer100Cycles_pctRated === null || d?.fadePer100Cycles_pctRated === undefined ? "—" : `${formatNumber(d.fadePer100Cycles_pctRated, 2)} %`}</td>
+              <td className={cellClass(true)}>{formatMilliohm(d?.dcir_mOhm)}</td>
+            </tr>
+          );
+        })}
+      </SimpleTable>
+      {q.unmeasured.length ? (
+        <p className="mt-3 text-sm text-ink-soft">
+          Not measured yet: <span className="font-mono">{q.unmeasured.map((u) => u.serial).join(", ")}</span>
+        </p>
+      ) : null}
+    </>
   );
 }

@@ -14,16 +14,16 @@ export function ReportSheet({
   subject,
   back,
   printedBy,
-  printedAt,
   children,
 }: {
   kind: string;
   subject: ReactNode;
   back: { href: string; label: string };
   printedBy: { name: string; role: Role };
-  printedAt: Date;
   children: ReactNode;
 }) {
+  // The report is drawn on request: it is prepared now, from the records as they stand.
+  const printedAt = new Date();
   return (
     <>
       <div className="no-print mx-auto mb-4 flex w-full max-w-[182mm] flex-wrap items-center justify-between gap-3">

@@ -69,23 +69,6 @@ export function createApiRateLimiter(limits: ApiRateLimits = defaultApiRateLimit
   };
 }
 
-function positiveIntFromEnv(name: string, fallback: number): number {
-  const raw = process.env[name];
-  if (raw === undefined || raw === "") return fallback;
-  const value = Number(raw);
-  if (!Number.isInteger(value) || value < 1) throw new Error(`${name} must be a whole number of at least 1 (got "${raw}")`);
-  return value;
-}
-
-/** The limits in force: the defaults, or a lab's own through the environment. */
-export function apiRateLimitsFromEnv(): ApiRateLimits {
-  return {
-    ...defaultApiRateLimits,
-    requestsPerSecond: positiveIntFromEnv("KNEEPOINT_API_REQUESTS_PER_SECOND", defaultApiRateLimits.requestsPerSecond),
-    burst: positiveIntFromEnv("KNEEPOINT_API_BURST", defaultApiRateLimits.burst),
-  };
-}
-
 /**
  * The address a request came from, as the server in front of us reports it. Behind a proxy that
  * appends to X-Forwarded-For, the last entry is the one the proxy saw; a client cannot forge it.

@@ -2,7 +2,8 @@ import "server-only";
 import { createHash, randomBytes } from "node:crypto";
 import { findTokenOwner } from "@/lib/db/queries/api-tokens";
 import { AppError } from "@/lib/http/errors";
-import { apiRateLimitsFromEnv, clientAddress, createApiRateLimiter, type ApiRateLimiter } from "./api-rate-limit";
+import { serverEnv } from "@/lib/env";
+import { clientAddress, createApiRateLimiter, defaultApiRateLimits, type ApiRateLimiter } from "./api-rate-limit";
 import { isRole } from "./roles";
 import type { SessionUser } from "./session";
 
@@ -22,7 +23,15 @@ export function hashApiToken(token: string): string {
 const limiterKey = Symbol.for("kneepoint.api-rate-limiter");
 // On globalThis so that a module reloaded in development keeps the counts.
 const store = globalThis as Record<symbol, ApiRateLimiter | undefined>;
-const limiter = (): ApiRateLimiter => (store[limiterKey] ??= createApiRateLimiter(apiRateLimitsFromEnv()));
+function limiter(): ApiRateLimiter {
+  const env = serverEnv();
+  store[limiterKey] ??= createApiRateLimiter({
+    ...defaultApiRateLimits,
+    requestsPerSecond: env.KNEEPOINT_API_REQUESTS_PER_SECOND ?? defaultApiRateLimits.requestsPerSecond,
+    burst: env.KNEEPOINT_API_BURST ?? defaultApiRateLimits.burst,
+  });
+  return store[limiterKey];
+}
 
 /**
  * The user behind `Authorization: Bearer kp_…`, acting with the owner's current role.

@@ -7,17 +7,13 @@
 import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
 import { defaultApiRateLimits } from "@/lib/auth/api-rate-limit";
-import { demoUsers } from "@/lib/db/seed-users";
+import type { Role } from "@/lib/auth/roles";
 import { appAndBrowser } from "./support/app-and-browser";
 import { freshPage, signIn } from "./support/browser";
+import { demoUser } from "./support/forms";
 
 const session = appAndBrowser();
 
-function demo(role: string) {
-  const user = demoUsers.find((u) => u.role === role);
-  if (!user) throw new Error(`no demo ${role}`);
-  return user;
-}
 
 /** Console messages that report a blocked resource or script: the app must cause none. */
 function watchViolations(page: Page): string[] {
@@ -55,7 +51,7 @@ describe("content security policy and headers", () => {
   it("lets the app run under the policy: sign in, load a table, sort it, follow a link", async () => {
     const page = await freshPage(session.browser);
     const violations = watchViolations(page);
-    const user = demo("qa-lead");
+    const user = demoUser("qa-lead");
     await signIn(page, session.app.url, user.email, user.password);
     await page.goto(`${session.app.url}/batches`);
     await page.getByRole("link", { name: "P1000-2611-B" }).waitFor();
@@ -82,7 +78,7 @@ describe("content security policy and headers", () => {
   it("blocks script that markup injected into a page would run: inline handlers and eval", async () => {
     const page = await freshPage(session.browser);
     const violations = watchViolations(page);
-    const user = demo("technician");
+    const user = demoUser("technician");
     await signIn(page, session.app.url, user.email, user.password);
     await page.goto(`${session.app.url}/cells`);
     const outcome = await page.evaluate(async () => {
@@ -127,13 +123,13 @@ describe("API token limits on the running server", () => {
 describe("pages a role may not use", () => {
   it("answers with a 403 status and the not-allowed page inside the app shell", async () => {
     // Written out by hand from the capability map: pages each role may not open.
-    const refused: [string, string, string[]][] = [
+    const refused: [Role, string, string[]][] = [
       ["technician", "Technician", ["/audit", "/admin/users"]],
       ["qa-lead", "QA lead", ["/upload", "/admin/users"]],
     ];
     for (const [role, badge, paths] of refused) {
       const page = await freshPage(session.browser);
-      const user = demo(role);
+      const user = demoUser(role);
       await signIn(page, session.app.url, user.email, user.password);
       for (const path of paths) {
         const response = await page.goto(`${session.app.url}${path}`);

@@ -7,9 +7,10 @@
 import fs from "node:fs";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser, Locator, Page } from "playwright-core";
+import type { Browser, Page } from "playwright-core";
 import { startAppServer, type AppServer } from "./support/app-server";
 import { freshPage, openBrowser, screenshot, signIn } from "./support/browser";
+import { factValue } from "./support/forms";
 
 let app: AppServer;
 let browser: Browser;
@@ -43,9 +44,6 @@ function lastDischargeMah(text: string): number {
 
 const expectedMah = lastDischargeMah(fs.readFileSync(logPath, "utf8"));
 
-async function factValue(scope: Page | Locator, label: string): Promise<string> {
-  return scope.locator("dt", { hasText: label }).first().locator("xpath=following-sibling::dd[1]").innerText();
-}
 
 const mAhIn = (text: string): number => Number(/([\d.]+)\s*mAh/.exec(text.replace(/\u00a0/g, " "))?.[1] ?? Number.NaN);
 

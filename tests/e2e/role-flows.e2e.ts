@@ -5,28 +5,18 @@
  * its role and finds that in the audit trail, and roles without those rights do not get the forms.
  * A wrong password must change nothing. One server for the file; a fresh browser context per role.
  */
-import type { Browser, Page } from "playwright-core";
+import type { Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { startAppServer, type AppServer } from "./support/app-server";
-import { freshPage, openBrowser, screenshot, signIn } from "./support/browser";
+import { appAndBrowser } from "./support/app-and-browser";
+import { freshPage, screenshot, signIn } from "./support/browser";
 import { demoUser, factValue, numberIn, panel, shownWithin, signatureIn, titleActions } from "./support/forms";
 
-let app: AppServer;
-let browser: Browser;
-
-beforeAll(async () => {
-  app = await startAppServer();
-  browser = await openBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.stop();
-});
+const session = appAndBrowser();
 
 async function signedInAs(role: Parameters<typeof demoUser>[0]): Promise<Page> {
-  const page = await freshPage(browser);
+  const page = await freshPage(session.browser);
   const user = demoUser(role);
-  await signIn(page, app.url, user.email, user.password);
+  await signIn(page, session.app.url, user.email, user.password);
   return page;
 }
 
@@ -47,7 +37,7 @@ describe("engineer: the fading demo cell's flag, acknowledged and then cleared w
 
   it("finds the open state-of-health flag of PB-0019 in the flag list and opens it", async () => {
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Flags" }).click();
-    await page.waitForURL(`${app.url}/flags`);
+    await page.waitForURL(`${session.app.url}/flags`);
     const table = page.getByRole("table", { name: "Flags, open ones first" });
     // PB-0019 fades past 80 % of rated in the demo's cycle-life run: the SOH rule must have fired.
     const row = table.locator("tbody tr", { hasText: "State of health below a bound" }).filter({ hasText: "PB-0019" });
@@ -146,7 +136,7 @@ describe("engineer: the fading demo cell's flag, acknowledged and then cleared w
     await screenshot(page, "flow-engineer-flag-cleared");
 
     // The cleared flag leaves the list of flags not yet closed; the cell's other flag (its fade rate) stays.
-    await page.goto(`${app.url}/flags?q=PB-0019`);
+    await page.goto(`${session.app.url}/flags?q=PB-0019`);
     const rows = page.getByRole("table", { name: "Flags, open ones first" }).locator("tbody tr");
     expect(await rows.count()).toBe(1);
     expect(await rows.first().innerText()).toContain("Fading faster than a bound");
@@ -165,7 +155,7 @@ describe("QA lead: lot P1000-2611-B's figures and a signed decision", () => {
   });
 
   it("opens the lot's quality page and sees figures that agree with its own cells, and the low outlier PB-0015", async () => {
-    await page.goto(`${app.url}/batches`);
+    await page.goto(`${session.app.url}/batches`);
     await page.getByRole("link", { name: "P1000-2611-B" }).click();
     await page.waitForURL(/\/batches\/[0-9a-f-]{36}$/);
     await page.getByRole("link", { name: "Quality figures and decision" }).click();
@@ -289,7 +279,7 @@ describe("administrator: a new account, a role change, and both in the audit tra
 
   it("creates an account for a new technician on the People page", async () => {
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "People" }).click();
-    await page.waitForURL(`${app.url}/admin/users`);
+    await page.waitForURL(`${session.app.url}/admin/users`);
     const people = page.getByRole("table", { name: "People with an account" });
     expect(await people.locator("tbody tr", { hasText: newcomer.email }).count()).toBe(0);
     const form = panel(page, "Create an account");
@@ -321,15 +311,15 @@ describe("administrator: a new account, a role change, and both in the audit tra
     await screenshot(page, "flow-admin-role-changed");
 
     // The account works: its owner signs in with the initial password and holds the new role.
-    const theirs = await freshPage(browser);
-    await signIn(theirs, app.url, newcomer.email, newcomer.password);
+    const theirs = await freshPage(session.browser);
+    await signIn(theirs, session.app.url, newcomer.email, newcomer.password);
     expect(await theirs.getByTestId("role-badge").innerText()).toMatch(/engineer/i);
     await theirs.context().close();
   });
 
   it("finds the role change, with the role before and after, in the audit trail", async () => {
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Audit trail" }).click();
-    await page.waitForURL(`${app.url}/audit`);
+    await page.waitForURL(`${session.app.url}/audit`);
     await page.getByLabel("Action", { exact: true }).selectOption("change role");
     const table = page.getByRole("table", { name: /Audit trail/ });
     const event = table.locator("tbody tr", { hasText: newcomer.name });
@@ -356,7 +346,7 @@ describe("administrator: a new account, a role change, and both in the audit tra
 describe("roles without the right do not get the signing and admin forms", () => {
   it("shows a technician the lot's figures and a flag without the decision or step forms", async () => {
     const page = await signedInAs("technician");
-    await page.goto(`${app.url}/batches`);
+    await page.goto(`${session.app.url}/batches`);
     await page.getByRole("link", { name: "P1000-2611-B" }).click();
     await page.getByRole("link", { name: "Quality figures and decision" }).click();
     await page.waitForURL(/\/quality$/);
@@ -365,7 +355,7 @@ describe("roles without the right do not get the signing and admin forms", () =>
     expect(await page.getByRole("button", { name: "Sign and record the decision" }).count()).toBe(0);
     expect(await page.getByLabel("Your password").count()).toBe(0);
 
-    await page.goto(`${app.url}/flags?q=PB-0019`);
+    await page.goto(`${session.app.url}/flags?q=PB-0019`);
     await page.getByRole("link", { name: "Fading faster than a bound" }).click();
     await page.waitForURL(/\/flags\/[0-9a-f-]{36}$/);
     expect(await panel(page, "Next step").innerText()).toContain("Engineers move flags; this one waits for them.");
@@ -377,7 +367,7 @@ describe("roles without the right do not get the signing and admin forms", () =>
   for (const role of ["qa-lead", "engineer"] as const) {
     it(`answers the ${role} on the People page with the not-allowed page and no list`, async () => {
       const page = await signedInAs(role);
-      const response = await page.goto(`${app.url}/admin/users`);
+      const response = await page.goto(`${session.app.url}/admin/users`);
       expect(response?.status()).toBe(403);
       await page.getByRole("heading", { name: "This page is not open to your role" }).waitFor();
       expect(await page.getByRole("table", { name: "People with an account" }).count()).toBe(0);

@@ -5,6 +5,7 @@ import type { DangerFinding, DcirInput, RunInput } from "@/lib/health/measuremen
 export type { DangerFinding };
 import { getDb, type Executor } from "../client";
 import { analysisVersion, batch, cell, cellType, run, runCycle, runFinding } from "../schema";
+import { runEndedAt } from "./run-views";
 
 /** What the fade pages and the flag rules read of a cell's analysed runs: the latest analysis of each complete run. */
 
@@ -36,7 +37,7 @@ export async function loadCellRuns(cellIds: readonly string[], exec?: Executor):
       runId: run.id,
       cellId: run.cellId,
       purpose: run.purpose,
-      endedAt: sql<Date>`coalesce(${run.testEndedAt}, ${run.createdAt})`.mapWith(run.createdAt),
+      endedAt: runEndedAt,
       analysisId: analysisVersion.id,
       durationS: sql<number | null>`(${analysisVersion.report}->'totals'->>'duration_s')::double precision`,
       dcir: sql<unknown>`${analysisVersion.report}->'dcir'`,
@@ -44,7 +45,7 @@ export async function loadCellRuns(cellIds: readonly string[], exec?: Executor):
     .from(run)
     .innerJoin(analysisVersion, latestAnalysis)
     .where(and(inArray(run.cellId, [...cellIds]), eq(run.status, "complete")))
-    .orderBy(sql`coalesce(${run.testEndedAt}, ${run.createdAt})`, asc(run.id));
+    .orderBy(runEndedAt, asc(run.id));
   if (runs.length === 0) return out;
   const analysisIds = runs.map((r) => r.analysisId);
   const [cycles, dangers] = await Promise.all([

@@ -13,7 +13,7 @@ import type { AddRunNoteInput } from "@/lib/validations/notebook";
 import { getDb, type Executor } from "../client";
 import { analysisVersion, batch, cell, cellType, flag, plotSeries, run, runCycle, runFinding, runNote } from "../schema";
 import { recordAudit, type AuditActor } from "./audit";
-import { getRunDetail, getRunHeader, listRunsOfCell, type RunDetail, type RunListItem } from "./run-views";
+import { getRunDetail, getRunHeader, listRunsOfCell, runEndedAt, type RunDetail, type RunListItem } from "./run-views";
 
 /**
  * Reads for the notebook pages (run, cell, batch) and the run notes. Built on the ingest's run
@@ -116,7 +116,7 @@ async function runFiguresOfCells(cellIds: string[]): Promise<RunFigureRow[]> {
     .select({
       runId: run.id,
       cellId: run.cellId,
-      endedAt: sql<Date>`coalesce(${run.testEndedAt}, ${run.createdAt})`.mapWith(run.createdAt),
+      endedAt: runEndedAt,
       analysisId: analysisVersion.id,
       findingsCount: analysisVersion.findingsCount,
       safetyFindingsCount: safetyCount,

@@ -9,6 +9,9 @@ import { analysisVersion, cell, plotSeries, run, runCycle, runFinding, runStep, 
 
 const latestAnalysis = and(eq(analysisVersion.runId, run.id), eq(analysisVersion.version, run.latestVersion));
 
+/** When a run's test ended: as the uploader stated it, else the upload time. Dates and order of a cell's measurements follow it. */
+export const runEndedAt = sql<Date>`coalesce(${run.testEndedAt}, ${run.createdAt})`.mapWith(run.createdAt);
+
 const runHeaderColumns = {
   id: run.id,
   cellId: run.cellId,

@@ -162,11 +162,6 @@ export default async function BatchQualityPage(props: Props) {
         </Panel>
         <Panel title="Cells">
           <QualityCellTable q={q} />
-          {q.unmeasured.length ? (
-            <p className="mt-3 text-sm text-ink-soft">
-              Not measured yet: <span className="font-mono">{q.unmeasured.map((u) => u.serial).join(", ")}</span>
-            </p>
-          ) : null}
         </Panel>
         <section aria-labelledby="batch-flags-title" className="space-y-3">
           <h2 id="batch-flags-title" className="text-base font-semibold">

@@ -43,7 +43,6 @@ export default async function BatchReportPage({ params }: Params) {
       subject={<span className="font-mono">{batch.lotCode}</span>}
       back={{ href: batchHref(batch.id), label: `Back to batch ${batch.lotCode}` }}
       printedBy={user}
-      printedAt={new Date()}
     >
       <ReportSection title="The lot">
         <Facts
@@ -85,11 +84,6 @@ export default async function BatchReportPage({ params }: Params) {
 
       <ReportSection title="Cells">
         <QualityCellTable q={q} />
-        {q.unmeasured.length ? (
-          <p className="mt-2 text-sm">
-            Not measured yet: <span className="font-mono">{q.unmeasured.map((u) => u.serial).join(", ")}</span>
-          </p>
-        ) : null}
         <p className="mt-2 text-xs text-ink-soft">
           Each cell&apos;s own report, with its runs, fade and record history:{" "}
           {[...q.delivered.map((d) => d.serial), ...q.unmeasured.map((u) => u.serial)].map((serial, i) => (

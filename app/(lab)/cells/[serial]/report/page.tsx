@@ -63,7 +63,6 @@ export default async function CellReportPage({ params }: Params) {
       subject={<span className="font-mono">{cell.serial}</span>}
       back={{ href: cellHref(cell.serial), label: `Back to cell ${cell.serial}` }}
       printedBy={user}
-      printedAt={new Date()}
     >
       <ReportSection title="The cell">
         <Facts
